@@ -1,0 +1,20 @@
+using Spectre.Console;
+
+namespace CourseSim.Cli.Output;
+
+/// <summary>Spectre consoles on a given writer; when output is redirected the width is widened so tables do not wrap.</summary>
+public static class Terminal
+{
+    public static IAnsiConsole For(TextWriter writer, int minWidth = 120)
+    {
+        bool redirected = writer != Console.Out || Console.IsOutputRedirected;
+        var console = AnsiConsole.Create(new AnsiConsoleSettings
+        {
+            Out = new AnsiConsoleOutput(writer),
+            Ansi = redirected ? AnsiSupport.No : AnsiSupport.Detect,
+            ColorSystem = redirected ? ColorSystemSupport.NoColors : ColorSystemSupport.Detect,
+        });
+        if (redirected || console.Profile.Width < minWidth) console.Profile.Width = Math.Max(minWidth, redirected ? 160 : console.Profile.Width);
+        return console;
+    }
+}

@@ -1,0 +1,106 @@
+namespace CourseSim.Hull;
+
+/// <summary>Board hull geometry. Defaults: a 2.40 m by 75 cm, 120 l freeride/slalom board.</summary>
+public sealed record BoardSpec
+{
+    public double LengthM { get; init; } = 2.40;
+    public double WidthCm { get; init; } = 75;
+    public double VolumeL { get; init; } = 120;
+    public double MassKg { get; init; } = 8.0;
+    /// <summary>Bottom vee (deadrise) at the planing area, deg; boards are nearly flat.</summary>
+    public double DeadriseDeg { get; init; } = 2.0;
+}
+
+/// <summary>Hull resistance at one speed and whether the board is planing.</summary>
+public readonly record struct HullState(double Resistance, double LiftFraction, double TrimDeg, double WettedLengthM);
+
+/// <summary>
+/// Hull resistance across the displacement, transition and planing regimes (docs/physics.md, "Hull"). The share of weight
+/// carried by dynamic lift rises with the volume Froude number FnV = V / sqrt(g vol^(1/3)) from 1 to 3 (planing
+/// hulls beat displacement forms above FnV 1 and are fully planing near FnV 3: Radojcic et al. 2014, Polish Maritime
+/// Research 21(2)). The displaced part pays skin friction on the resting wetted area (ITTC 1957 line) plus wave-making that
+/// rises as FnV^4 (a model term sized so the hump drag is about an eighth of the weight, from memory for planing boards);
+/// the lifted part pays Savitsky's planing drag at the trim that minimises it (the rider moves to trim the board), on a
+/// planing beam of 0.6 of the board's width (the narrower tail carries the board when planing; from memory).
+/// Results are tabulated once per board and interpolated.
+/// </summary>
+public sealed class HullModel
+{
+    public const double PlaningBeamFraction = 0.6;
+    public const double WaveCoefficient = 0.008;
+    public const double FormFactor = 1.1;
+    const double TableStep = 0.05;
+    const double TableMax = 40.0;
+
+    public BoardSpec Spec { get; }
+    public double WeightN { get; }
+    public double DisplacementM3 { get; }
+    public double PlaningBeamM { get; }
+    public double RestingWettedAreaM2 { get; }
+    readonly double _rho, _nu, _g;
+    readonly HullState[] _table;
+
+    public HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity = 9.80665)
+    {
+        Spec = spec;
+        _rho = density; _nu = kinematicViscosity; _g = gravity;
+        WeightN = totalMassKg * gravity;
+        DisplacementM3 = totalMassKg / density;
+        PlaningBeamM = PlaningBeamFraction * spec.WidthCm / 100.0;
+        // Resting wetted area: bottom planform about 0.7 of length x width, plus the rails.
+        RestingWettedAreaM2 = 0.7 * spec.LengthM * spec.WidthCm / 100.0 * 1.1;
+        int n = (int)(TableMax / TableStep) + 1;
+        _table = new HullState[n];
+        for (int i = 0; i < n; i++) _table[i] = Compute(i * TableStep);
+    }
+
+    /// <summary>Volume Froude number at speed V (m/s).</summary>
+    public double VolumeFroude(double speed) => speed / Math.Sqrt(_g * Math.Cbrt(DisplacementM3));
+
+    static double SmoothStep(double x)
+    {
+        x = Math.Clamp(x, 0, 1);
+        return x * x * (3 - 2 * x);
+    }
+
+    /// <summary>Share of the weight carried by dynamic lift at speed V.</summary>
+    public double LiftFraction(double speed) => SmoothStep((VolumeFroude(speed) - 1.0) / 2.0);
+
+    /// <summary>Savitsky's planing drag at the best trim (2..10 deg) for the full weight, and that trim.</summary>
+    public PlaningState BestPlaning(double speed)
+    {
+        var best = Savitsky.At(WeightN, speed, PlaningBeamM, Spec.DeadriseDeg, 2.0, _rho, _nu, _g);
+        for (double t = 2.25; t <= 10.0; t += 0.25)
+        {
+            var s = Savitsky.At(WeightN, speed, PlaningBeamM, Spec.DeadriseDeg, t, _rho, _nu, _g);
+            if (s.Drag < best.Drag) best = s;
+        }
+        return best;
+    }
+
+    HullState Compute(double v)
+    {
+        double phi = LiftFraction(v);
+        double re = Math.Max(v, 1e-3) * Spec.LengthM / _nu;
+        double friction = 0.5 * _rho * v * v * RestingWettedAreaM2 * Friction.Ittc1957(re) * FormFactor;
+        double fn = VolumeFroude(v);
+        double wave = WaveCoefficient * WeightN * fn * fn * fn * fn;
+        double displaced = friction + wave;
+        if (phi <= 0) return new HullState(displaced, 0, 0, Spec.LengthM);
+        var p = BestPlaning(Math.Max(v, 0.5));
+        double planing = p.Drag;
+        double res = (1 - phi) * displaced + phi * planing;
+        return new HullState(res, phi, p.TrimDeg, Math.Min(p.Lambda * PlaningBeamM, Spec.LengthM));
+    }
+
+    /// <summary>Hull state at speed V (m/s), interpolated from the table (clamped to 0..40 m/s).</summary>
+    public HullState At(double speed)
+    {
+        double x = Math.Clamp(speed, 0, TableMax) / TableStep;
+        int i = Math.Min((int)x, _table.Length - 2);
+        double f = x - i;
+        var a = _table[i]; var b = _table[i + 1];
+        return new HullState(a.Resistance + f * (b.Resistance - a.Resistance), a.LiftFraction + f * (b.LiftFraction - a.LiftFraction),
+            a.TrimDeg + f * (b.TrimDeg - a.TrimDeg), a.WettedLengthM + f * (b.WettedLengthM - a.WettedLengthM));
+    }
+}

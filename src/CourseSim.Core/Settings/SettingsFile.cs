@@ -1,0 +1,179 @@
+using System.Globalization;
+using Tomlyn;
+using Tomlyn.Model;
+
+namespace CourseSim.Settings;
+
+/// <summary>A value read from a file or an override, with where it came from.</summary>
+public readonly record struct SettingValue(object Value, string Source, int Line);
+
+/// <summary>
+/// Reads a TOML settings file into flat dotted keys with their line numbers, applies "--set table.key=value"
+/// overrides, and checks every key against a schema: unknown keys, wrong types and out-of-range values are errors
+/// naming file, line, key and the accepted range.
+/// </summary>
+public sealed class SettingsFile
+{
+    readonly Dictionary<string, SettingValue> _values = new(StringComparer.Ordinal);
+    public SettingsSchema Schema { get; }
+    public string Path { get; }
+    /// <summary>Folder of the file, for resolving relative paths inside it.</summary>
+    public string Directory { get; }
+
+    SettingsFile(SettingsSchema schema, string path)
+    {
+        Schema = schema;
+        Path = path;
+        Directory = System.IO.Path.GetDirectoryName(System.IO.Path.GetFullPath(path)) ?? ".";
+    }
+
+    public static SettingsFile Load(string path, SettingsSchema schema, IEnumerable<string>? overrides = null, Func<string, bool>? acceptExtra = null)
+    {
+        if (!File.Exists(path)) throw new SettingsException(path, 0, null, $"file not found (expected a {schema.Kind} file in TOML)");
+        string text;
+        try { text = File.ReadAllText(path); }
+        catch (IOException e) { throw new SettingsException(path, 0, null, $"cannot read: {e.Message}"); }
+        return Parse(text, path, schema, overrides, acceptExtra);
+    }
+
+    public static SettingsFile Parse(string text, string path, SettingsSchema schema, IEnumerable<string>? overrides = null, Func<string, bool>? acceptExtra = null)
+    {
+        TomlTable? table;
+        try { table = TomlSerializer.Deserialize<TomlTable>(text, (TomlSerializerOptions?)null!); }
+        catch (TomlException e)
+        {
+            string msg = e.Message;
+            int cut = msg.IndexOf(" : error : ", StringComparison.Ordinal);
+            if (cut >= 0) msg = msg[(cut + 11)..];
+            throw new SettingsException(path, e.Line ?? 0, null, $"not valid TOML: {msg}");
+        }
+        table ??= new TomlTable();
+        var lines = KeyLines(text);
+        var file = new SettingsFile(schema, path);
+        foreach (var (key, value) in Flatten(table, ""))
+        {
+            int line = lines.TryGetValue(key, out int l) ? l : 0;
+            file.Put(key, value, path, line, acceptExtra);
+        }
+        foreach (var o in overrides ?? [])
+            file.ApplyOverride(o, acceptExtra);
+        return file;
+    }
+
+    void ApplyOverride(string o, Func<string, bool>? acceptExtra)
+    {
+        int eq = o.IndexOf('=');
+        if (eq <= 0) throw new SettingsException("--set", 0, null, $"'{o}' is not of the form table.key=value");
+        string key = o[..eq].Trim(), raw = o[(eq + 1)..].Trim();
+        object value = raw;
+        try
+        {
+            var t = TomlSerializer.Deserialize<TomlTable>("v = " + raw, (TomlSerializerOptions?)null!);
+            value = t?["v"] ?? raw;
+        }
+        catch (TomlException) { /* a bare word: keep it as text */ }
+        Put(key, value, "--set", 0, acceptExtra);
+    }
+
+    void Put(string key, object value, string source, int line, Func<string, bool>? acceptExtra)
+    {
+        if (!Schema.Keys.TryGetValue(key, out var spec))
+        {
+            if (acceptExtra?.Invoke(key) == true) { _values[key] = new SettingValue(value, source, line); return; }
+            throw new SettingsException(source, line, key, $"unknown key in a {Schema.Kind} file; known keys here: {string.Join(", ", Schema.KnownKeysNear(key))}");
+        }
+        _values[key] = new SettingValue(Check(spec, value, source, line), source, line);
+    }
+
+    static object Check(KeySpec spec, object value, string source, int line)
+    {
+        switch (spec.Kind)
+        {
+            case KeyKind.Number:
+            {
+                double? d = value switch { long l => l, double x => x, int i => i, _ => null };
+                if (d is null) throw new SettingsException(source, line, spec.Key, $"expected a number, {spec.RangeText} ({spec.Help}), got '{value}'");
+                if (double.IsNaN(d.Value) || d < spec.Min || d > spec.Max)
+                    throw new SettingsException(source, line, spec.Key, $"{Fmt(d.Value)} is out of range: accepted {spec.RangeText} ({spec.Help})");
+                return d.Value;
+            }
+            case KeyKind.NumberList:
+            {
+                if (value is not TomlArray arr) throw new SettingsException(source, line, spec.Key, $"expected a list of numbers, each {spec.RangeText}");
+                var list = new List<double>();
+                foreach (var item in arr)
+                {
+                    double? d = item switch { long l => l, double x => x, _ => null };
+                    if (d is null || d < spec.Min || d > spec.Max)
+                        throw new SettingsException(source, line, spec.Key, $"list item '{item}' is not a number in {spec.RangeText}");
+                    list.Add(d.Value);
+                }
+                return list.ToArray();
+            }
+            case KeyKind.Boolean:
+                if (value is bool b) return b;
+                throw new SettingsException(source, line, spec.Key, $"expected true or false, got '{value}'");
+            default:
+                if (value is not string s) throw new SettingsException(source, line, spec.Key, $"expected a string ({spec.Help}), got '{value}'");
+                if (spec.Choices is not null && !spec.Choices.Contains(s))
+                    throw new SettingsException(source, line, spec.Key, $"'{s}' is not accepted: {spec.RangeText}");
+                return s;
+        }
+    }
+
+    static string Fmt(double d) => d.ToString("G", CultureInfo.InvariantCulture);
+
+    static IEnumerable<(string, object)> Flatten(TomlTable t, string prefix)
+    {
+        foreach (var kv in t)
+        {
+            string key = prefix + kv.Key;
+            if (kv.Value is TomlTable sub) foreach (var x in Flatten(sub, key + ".")) yield return x;
+            else yield return (key, kv.Value);
+        }
+    }
+
+    /// <summary>Line of each dotted key: tracks [table] headers and key = value lines (tables of arrays are not used in settings).</summary>
+    static Dictionary<string, int> KeyLines(string text)
+    {
+        var map = new Dictionary<string, int>(StringComparer.Ordinal);
+        string table = "";
+        var lines = text.Split('\n');
+        for (int i = 0; i < lines.Length; i++)
+        {
+            string l = lines[i].Trim();
+            if (l.Length == 0 || l[0] == '#') continue;
+            if (l[0] == '[')
+            {
+                int end = l.IndexOf(']');
+                if (end > 0) table = l[1..end].Trim('[', ' ') + ".";
+                continue;
+            }
+            int eq = l.IndexOf('=');
+            if (eq <= 0) continue;
+            string k = string.Join('.', l[..eq].Split('.').Select(p => p.Trim().Trim('"', '\'')));
+            map.TryAdd(table + k, i + 1);
+        }
+        return map;
+    }
+
+    public bool Has(string key) => _values.ContainsKey(key);
+    public IEnumerable<string> KeysGiven => _values.Keys;
+    public SettingValue? Raw(string key) => _values.TryGetValue(key, out var v) ? v : null;
+
+    public double Number(string key)
+    {
+        if (_values.TryGetValue(key, out var v)) return (double)v.Value;
+        return Schema.Keys[key].Default;
+    }
+
+    public string Text(string key) => _values.TryGetValue(key, out var v) ? (string)v.Value : Schema.Keys[key].TextDefault ?? "";
+    public bool Flag(string key) => _values.TryGetValue(key, out var v) ? (bool)v.Value : Schema.Keys[key].Default != 0;
+
+    /// <summary>Raises an error located at the key (or the file) for a cross-field problem.</summary>
+    public SettingsException ErrorAt(string key, string problem)
+    {
+        if (_values.TryGetValue(key, out var v)) return new SettingsException(v.Source, v.Line, key, problem);
+        return new SettingsException(Path, 0, key, problem);
+    }
+}

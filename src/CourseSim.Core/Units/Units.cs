@@ -1,0 +1,27 @@
+namespace CourseSim.Units;
+
+/// <summary>Unit conversions. Internally CourseSim works in SI (m, s, kg, N, rad).</summary>
+public static class Unit
+{
+    /// <summary>One international knot is exactly 1852 m per 3600 s.</summary>
+    public const double MetresPerSecondPerKnot = 1852.0 / 3600.0;
+
+    public static double KnotsToMs(double kn) => kn * MetresPerSecondPerKnot;
+    public static double MsToKnots(double ms) => ms / MetresPerSecondPerKnot;
+    public static double DegToRad(double deg) => deg * (Math.PI / 180.0);
+    public static double RadToDeg(double rad) => rad * (180.0 / Math.PI);
+
+    /// <summary>Wraps an angle in degrees to [0, 360).</summary>
+    public static double WrapDeg360(double deg)
+    {
+        double r = deg % 360.0;
+        return r < 0 ? r + 360.0 : r;
+    }
+
+    /// <summary>Wraps an angle in degrees to (-180, 180].</summary>
+    public static double WrapDeg180(double deg)
+    {
+        double r = WrapDeg360(deg);
+        return r > 180.0 ? r - 360.0 : r;
+    }
+}
