@@ -12,6 +12,7 @@ public static class Program
     {
         var root = new RootCommand("CourseSim: windsurf race-course simulation. Polars, wind fields and races from board physics.");
         root.Subcommands.Add(PolarCommand.Build(stdout, stderr));
+        root.Subcommands.Add(WindCommand.Build(stdout, stderr));
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {
@@ -36,6 +37,12 @@ public static class Program
         catch (IOException e)
         {
             stderr.WriteLine($"error: {e.Message}");
+            return ExitCodes.Failure;
+        }
+        catch (Exception e) when (e is not OutOfMemoryException)
+        {
+            stderr.WriteLine($"error: the run failed: {e.GetType().Name}: {e.Message}");
+            stderr.WriteLine("This is a bug in CourseSim; please report it with the command line and input files.");
             return ExitCodes.Failure;
         }
     }

@@ -36,3 +36,48 @@ public class EquilibriumBenchmarks
     [Benchmark(Description = "polar 15 winds x 31 angles, VMG and thresholds")]
     public int FullPolar() => Polar.Compute(_eq, _winds, _angles).Points.Count;
 }
+
+/// <summary>
+/// Wind sampling cost on one core: nanoseconds per sample without and with the shadows of a 40-board fleet, and the
+/// memory of the field (the gust tiles; the same for a 3 km course over an hour, since the tile is periodic and frozen).
+/// </summary>
+[MemoryDiagnoser]
+public class WindBenchmarks
+{
+    CourseSim.Wind.WindField _field = null!;
+    CourseSim.Wind.WindShadow _shadow = null!;
+    double[] _x = null!, _y = null!;
+    const int N = 1000;
+
+    [GlobalSetup]
+    public void Setup()
+    {
+        var s = new CourseSim.Wind.WindSettings();
+        _field = new CourseSim.Wind.WindField(s, 1);
+        _shadow = new CourseSim.Wind.WindShadow(s);
+        var r = new CourseSim.Random.CounterRng(2, 3);
+        _x = Enumerable.Range(0, N).Select(i => r.Uniform((ulong)(2 * i)) * 3000 - 1500).ToArray();
+        _y = Enumerable.Range(0, N).Select(i => r.Uniform((ulong)(2 * i + 1)) * 3000 - 1500).ToArray();
+        // 40 boards bunched near a mark: the shadow look-ups have neighbours to check.
+        var src = Enumerable.Range(0, 40).Select(i => new CourseSim.Wind.ShadowSource(r.Uniform((ulong)(5000 + i)) * 150, r.Uniform((ulong)(6000 + i)) * 150, 225, 5, 7)).ToArray();
+        _shadow.Build(src);
+        for (int i = 0; i < 40; i++) { _x[i] = src[i].X + 3; _y[i] = src[i].Y - 10; }
+        Console.WriteLine($"// wind field memory: {_field.MemoryBytes / 1024.0 / 1024.0:F1} MiB (any course size, any duration)");
+    }
+
+    [Benchmark(OperationsPerInvoke = N, Description = "wind sample, no shadows (ns/sample)")]
+    public double Sample()
+    {
+        double s = 0;
+        for (int i = 0; i < N; i++) s += _field.Sample(_x[i], _y[i], i * 0.05).SpeedMs;
+        return s;
+    }
+
+    [Benchmark(OperationsPerInvoke = N, Description = "wind sample with 40-board shadows (ns/sample)")]
+    public double SampleWithShadows()
+    {
+        double s = 0;
+        for (int i = 0; i < N; i++) s += _shadow.Apply(_field.Sample(_x[i], _y[i], i * 0.05), _x[i], _y[i]).SpeedMs;
+        return s;
+    }
+}

@@ -1,0 +1,39 @@
+namespace CourseSim.Random;
+
+/// <summary>
+/// A counter-based random generator: every number is a pure function of (seed, stream, counter), so results do not depend
+/// on thread count or query order. The mixing function is SplitMix64's finaliser (Steele, Lea and Flood 2014, "Fast
+/// splittable pseudorandom number generators", OOPSLA), applied to a combination of the three keys.
+/// </summary>
+public readonly record struct CounterRng(ulong Seed, ulong Stream)
+{
+    /// <summary>Well-known streams, so variants of an experiment can share one (the wind) while differing in others.</summary>
+    public static class Streams
+    {
+        public const ulong WindShifts = 0x5717_0001, WindGustU = 0x5717_0002, WindGustV = 0x5717_0003, Tiles = 0x5717_0004;
+        public const ulong Sensing = 0x5E45_0000, Tactics = 0x7AC7_0000, Falls = 0xFA11_0000;
+    }
+
+    /// <summary>A sub-stream for one board or purpose: (seed, stream, index).</summary>
+    public CounterRng For(ulong index) => new(Seed, Mix(Stream ^ Mix(index + 0x632BE59BD9B4E019UL)));
+
+    public static ulong Mix(ulong z)
+    {
+        z += 0x9E3779B97F4A7C15UL;
+        z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9UL;
+        z = (z ^ (z >> 27)) * 0x94D049BB133111EBUL;
+        return z ^ (z >> 31);
+    }
+
+    public ulong Bits(ulong counter) => Mix(Mix(Seed ^ 0xD1B54A32D192ED03UL) ^ Mix(Stream + 0x8CB92BA72F3D8DD7UL) ^ counter * 0x9E3779B97F4A7C15UL);
+
+    /// <summary>Uniform on [0, 1) with 53 random bits.</summary>
+    public double Uniform(ulong counter) => (Bits(counter) >> 11) * (1.0 / 9007199254740992.0);
+
+    /// <summary>Standard normal (Box-Muller on counters 2c and 2c+1).</summary>
+    public double Normal(ulong counter)
+    {
+        double u1 = 1.0 - Uniform(2 * counter), u2 = Uniform(2 * counter + 1);
+        return Math.Sqrt(-2.0 * Math.Log(u1)) * Math.Cos(2 * Math.PI * u2);
+    }
+}

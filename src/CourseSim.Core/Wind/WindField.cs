@@ -1,0 +1,116 @@
+using CourseSim.Random;
+using CourseSim.Units;
+
+namespace CourseSim.Wind;
+
+/// <summary>Wind at one place and time, 10 m height: speed (m/s) and the direction it comes from (deg true).</summary>
+public readonly record struct WindSample(double SpeedMs, double FromDeg)
+{
+    public double SpeedKn => Unit.MsToKnots(SpeedMs);
+}
+
+/// <summary>
+/// The reproducible wind field W(x, y, t) over the course (docs/wind.md). x east, y north, metres from the course origin;
+/// t seconds from the start. Mean speed with an optional ramp; oscillating shifts (random-phase components around the
+/// period) and a persistent trend; a geographic bend and pressure differences across the course; pressure bands, gusts
+/// and shifts frozen and carried downwind with the mean wind (Taylor's hypothesis), so upwind boards see them first.
+/// Every value is a pure function of (settings, seed, x, y, t): thread count and query order cannot change it.
+/// </summary>
+public sealed class WindField
+{
+    /// <summary>Rotation of the gust tile against the wind axis, so a point's path through the periodic tile does not repeat
+    /// after one tile length (an irrational slope; 23.7 deg).</summary>
+    const double TileRotation = 0.41364;
+    /// <summary>Width over which the geographic bend applies its full difference, m.</summary>
+    public const double BendWidthM = 1000;
+
+    public WindSettings Settings { get; }
+    public ulong Seed { get; }
+    readonly double _u0, _ramp, _dirRad, _ex, _ey, _nx, _ny, _ca, _sa;
+    readonly double[] _shiftFreq, _shiftAmp, _shiftPhase;
+    readonly GustTile? _gu, _gv;
+    readonly double _sigmaU;
+    // The oscillating shift tabulated every 0.5 s over advected times -2 h .. +6 h (the sum of sines dominates a sample's
+    // cost); outside the table it is computed directly. Linear interpolation error is below 0.01 deg for periods over 60 s.
+    const double ShiftTableStep = 0.5, ShiftTableStart = -7200, ShiftTableEnd = 21600;
+    readonly float[] _shiftTable;
+
+    public WindField(WindSettings s, ulong seed)
+    {
+        Settings = s; Seed = seed;
+        _u0 = Unit.KnotsToMs(s.SpeedKn);
+        _ramp = Unit.KnotsToMs(s.RampKnPerHour) / 3600.0;
+        _dirRad = Unit.DegToRad(s.DirectionDeg);
+        // Downwind unit vector (where the wind blows to) and the unit vector to its right (looking downwind).
+        _ex = -Math.Sin(_dirRad); _ey = -Math.Cos(_dirRad);
+        _nx = -_ey; _ny = _ex;
+        _ca = Math.Cos(TileRotation); _sa = Math.Sin(TileRotation);
+        var rng = new CounterRng(seed, CounterRng.Streams.WindShifts);
+        int k = s.ShiftIrregularity <= 0 ? 1 : 6;
+        _shiftFreq = new double[k]; _shiftAmp = new double[k]; _shiftPhase = new double[k];
+        for (int i = 0; i < k; i++)
+        {
+            double z = k == 1 ? 0 : 2 * rng.Uniform((ulong)(3 * i)) - 1;
+            _shiftFreq[i] = 2 * Math.PI / s.ShiftPeriodS * Math.Pow(2, s.ShiftIrregularity * z);
+            _shiftAmp[i] = s.ShiftAmplitudeDeg / Math.Sqrt(k);
+            _shiftPhase[i] = 2 * Math.PI * rng.Uniform((ulong)(3 * i + 1));
+        }
+        _sigmaU = s.GustIntensity * _u0;
+        _shiftTable = new float[(int)((ShiftTableEnd - ShiftTableStart) / ShiftTableStep) + 2];
+        for (int i = 0; i < _shiftTable.Length; i++) _shiftTable[i] = (float)OscillatingShift(ShiftTableStart + i * ShiftTableStep);
+        if (s.GustIntensity > 0)
+        {
+            _gu = new GustTile(s.GustLengthM, new CounterRng(seed, CounterRng.Streams.WindGustU));
+            // IEC 61400-1: lateral sigma 0.8 sigma_u, lateral length scale about a third of the longitudinal one.
+            _gv = new GustTile(s.GustLengthM / 3.0, new CounterRng(seed, CounterRng.Streams.WindGustV));
+        }
+    }
+
+    /// <summary>Mean speed (m/s) at time t: start speed plus ramp.</summary>
+    public double MeanSpeed(double t) => Math.Max(0, _u0 + _ramp * t);
+
+    /// <summary>Oscillating shift (deg) at "advected time" tau.</summary>
+    public double OscillatingShift(double tau)
+    {
+        double d = 0;
+        for (int i = 0; i < _shiftFreq.Length; i++) d += _shiftAmp[i] * Math.Sin(_shiftFreq[i] * tau + _shiftPhase[i]);
+        return d;
+    }
+
+    double TabulatedShift(double tau)
+    {
+        double x = (tau - ShiftTableStart) / ShiftTableStep;
+        if (x < 0 || x >= _shiftTable.Length - 1) return OscillatingShift(tau);
+        int i = (int)x; double f = x - i;
+        return _shiftTable[i] + f * (_shiftTable[i + 1] - _shiftTable[i]);
+    }
+
+    /// <summary>Gust tile memory, bytes (both components).</summary>
+    public long MemoryBytes => (_gu?.MemoryBytes ?? 0) + (_gv?.MemoryBytes ?? 0) + _shiftTable.Length * sizeof(float);
+
+    public WindSample Sample(double x, double y, double t)
+    {
+        var s = Settings;
+        double along = x * _ex + y * _ey;      // downwind distance
+        double cross = x * _nx + y * _ny;      // to the right looking downwind
+        // Patterns travel downwind at the starting mean speed: a point 'along' metres downwind sees at t what the origin saw at t - along/U.
+        double adv = _u0 > 0.1 ? _u0 : 0.1;
+        double tau = t - along / adv;
+        double dir = s.DirectionDeg + TabulatedShift(tau) + s.PersistentDegPerMin * tau / 60.0
+                     + s.BendDeg * Math.Clamp(-cross / BendWidthM, -0.5, 0.5);
+        double u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (-cross / 1000.0);
+        if (s.BandAmplitudeKn != 0) u += Unit.KnotsToMs(s.BandAmplitudeKn) * Math.Sin(2 * Math.PI * (along - adv * t) / s.BandSpacingM);
+        u = Math.Max(u, 0);
+        if (_gu is not null)
+        {
+            double xi = along - adv * t;
+            double a = xi * _ca - cross * _sa, b = xi * _sa + cross * _ca;
+            double du = _sigmaU * _gu.At(a, b);
+            double dv = 0.8 * _sigmaU * _gv!.At(a, b);
+            double uu = Math.Max(u + du, 0);
+            dir += Unit.RadToDeg(Math.Atan2(dv, Math.Max(uu, 0.1)));
+            u = Math.Sqrt(uu * uu + dv * dv);
+        }
+        return new WindSample(u, Unit.WrapDeg360(dir));
+    }
+}
