@@ -52,17 +52,29 @@ public static class WindStatistics
         return count > 0 ? sum / count : double.NaN;
     }
 
-    /// <summary>Observed shift period: twice the mean time between crossings of the mean by the 60-s smoothed direction.</summary>
+    /// <summary>
+    /// Observed shift period: twice the mean time between crossings of the mean by the 60-s smoothed direction. A crossing
+    /// counts only once the signal has gone past half a standard deviation on the other side (hysteresis), so gust noise
+    /// riding on the shift does not add crossings.
+    /// </summary>
     public static double? ShiftPeriod(double[] relDir, double dt)
     {
         int w = Math.Max(1, (int)(60 / dt));
         var sm = new double[relDir.Length];
         double run = 0;
         for (int i = 0; i < relDir.Length; i++) { run += relDir[i]; if (i >= w) run -= relDir[i - w]; sm[i] = run / Math.Min(i + 1, w); }
-        double mean = sm.Skip(w).DefaultIfEmpty(0).Average();
-        int crossings = 0, first = -1, last = -1;
-        for (int i = w + 1; i < sm.Length; i++)
-            if ((sm[i - 1] - mean) * (sm[i] - mean) < 0) { crossings++; if (first < 0) first = i; last = i; }
+        if (sm.Length <= w + 2) return null;
+        var tail = sm.Skip(w).ToArray();
+        double mean = tail.Average(), sd = Math.Sqrt(tail.Select(v => (v - mean) * (v - mean)).Average());
+        double band = 0.5 * sd;
+        int state = 0, crossings = 0, first = -1, last = -1;
+        for (int i = w; i < sm.Length; i++)
+        {
+            double v = sm[i] - mean;
+            int next = v > band ? 1 : v < -band ? -1 : state;
+            if (state != 0 && next != state) { crossings++; if (first < 0) first = i; last = i; }
+            state = next;
+        }
         if (crossings < 3) return null;
         return 2 * (last - first) * dt / (crossings - 1);
     }
