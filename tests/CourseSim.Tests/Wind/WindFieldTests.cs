@@ -87,7 +87,7 @@ public class WindFieldTests
         var rel = WindStatistics.Unwrap(d, out _);
         double m = rel.Average(), sd = Math.Sqrt(rel.Select(v => (v - m) * (v - m)).Average());
         Assert.Equal(10, Math.Sqrt(2) * sd, 0.5);
-        Assert.Equal(300, WindStatistics.ShiftPeriod(rel, 1.0)!.Value, 15);
+        Assert.Equal(300.0, WindStatistics.ShiftPeriod(rel, 1.0)!.Value, 15.0);
     }
 
     // A persistent shift is recovered by linear regression of direction on time within 2%.
