@@ -19,7 +19,7 @@ public sealed class WindShadow
     readonly WindSettings _s;
     ShadowSource[] _src = [];
     double[] _dx = [], _dy = [], _len = [];
-    int[] _cellStart = [], _items = [];
+    int[] _cellStart = [], _items = [], _fill = [];
     int _count, _nx, _ny;
     double _x0, _y0, _cell;
 
@@ -66,8 +66,9 @@ public sealed class WindShadow
         else Array.Clear(_cellStart, 0, cells + 1);
         for (int i = 0; i < _count; i++) _cellStart[CellOf(_src[i].X, _src[i].Y) + 1]++;
         for (int c = 0; c < cells; c++) _cellStart[c + 1] += _cellStart[c];
-        Span<int> fill = cells <= 4096 ? stackalloc int[cells] : new int[cells];
-        for (int i = 0; i < _count; i++) { int c = CellOf(_src[i].X, _src[i].Y); _items[_cellStart[c] + fill[c]++] = i; }
+        if (_fill.Length < cells) _fill = new int[cells];
+        else Array.Clear(_fill, 0, cells);
+        for (int i = 0; i < _count; i++) { int c = CellOf(_src[i].X, _src[i].Y); _items[_cellStart[c] + _fill[c]++] = i; }
     }
 
     int CellOf(double x, double y)
