@@ -2,6 +2,7 @@ using System.CommandLine;
 using System.Globalization;
 using CourseSim.Cli.Output;
 using CourseSim.Wind;
+using CourseSim.Engine;
 using Spectre.Console;
 
 namespace CourseSim.Cli.Commands;

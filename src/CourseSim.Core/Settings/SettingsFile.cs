@@ -77,12 +77,12 @@ public sealed class SettingsFile
 
     void Put(string key, object value, string source, int line, Func<string, bool>? acceptExtra)
     {
-        if (!Schema.Keys.TryGetValue(key, out var spec))
+        if (!Schema.TryFind(key, out var spec))
         {
             if (acceptExtra?.Invoke(key) == true) { _values[key] = new SettingValue(value, source, line); return; }
             throw new SettingsException(source, line, key, $"unknown key in a {Schema.Kind} file; known keys here: {string.Join(", ", Schema.KnownKeysNear(key))}");
         }
-        _values[key] = new SettingValue(Check(spec, value, source, line), source, line);
+        _values[key] = new SettingValue(Check(spec with { Key = key }, value, source, line), source, line);
     }
 
     static object Check(KeySpec spec, object value, string source, int line)
@@ -158,17 +158,39 @@ public sealed class SettingsFile
     }
 
     public bool Has(string key) => _values.ContainsKey(key);
+
+    /// <summary>
+    /// Names given under a prefix ("boards" gives the X of every boards.X.* key), in the order they first appear in the
+    /// file (overrides after), so a fleet keeps the order it was written in.
+    /// </summary>
+    public IReadOnlyList<string> Names(string prefix)
+    {
+        var seen = new Dictionary<string, (int Order, int Line)>(StringComparer.Ordinal);
+        int order = 0;
+        foreach (var (k, v) in _values)
+        {
+            if (!k.StartsWith(prefix + ".", StringComparison.Ordinal)) continue;
+            var rest = k[(prefix.Length + 1)..];
+            int dot = rest.IndexOf('.');
+            if (dot <= 0) continue;
+            var name = rest[..dot];
+            int line = v.Line > 0 ? v.Line : int.MaxValue;
+            if (!seen.TryGetValue(name, out var prev)) seen[name] = (order++, line);
+            else if (line < prev.Line) seen[name] = (prev.Order, line);
+        }
+        return seen.OrderBy(p => p.Value.Line).ThenBy(p => p.Value.Order).Select(p => p.Key).ToList();
+    }
     public IEnumerable<string> KeysGiven => _values.Keys;
     public SettingValue? Raw(string key) => _values.TryGetValue(key, out var v) ? v : null;
 
     public double Number(string key)
     {
         if (_values.TryGetValue(key, out var v)) return (double)v.Value;
-        return Schema.Keys[key].Default;
+        return Schema.Find(key).Default;
     }
 
-    public string Text(string key) => _values.TryGetValue(key, out var v) ? (string)v.Value : Schema.Keys[key].TextDefault ?? "";
-    public bool Flag(string key) => _values.TryGetValue(key, out var v) ? (bool)v.Value : Schema.Keys[key].Default != 0;
+    public string Text(string key) => _values.TryGetValue(key, out var v) ? (string)v.Value : Schema.Find(key).TextDefault ?? "";
+    public bool Flag(string key) => _values.TryGetValue(key, out var v) ? (bool)v.Value : Schema.Find(key).Default != 0;
 
     /// <summary>Raises an error located at the key (or the file) for a cross-field problem.</summary>
     public SettingsException ErrorAt(string key, string problem)

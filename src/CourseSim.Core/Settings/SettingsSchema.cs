@@ -28,12 +28,43 @@ public sealed class SettingsSchema(string kind, IEnumerable<KeySpec> keys)
     public string Kind { get; } = kind;
     public IReadOnlyDictionary<string, KeySpec> Keys { get; } = keys.ToDictionary(k => k.Key, StringComparer.Ordinal);
 
+    /// <summary>
+    /// The spec for a key. A spec's key may hold a "*" segment that stands for any name (boards.*.equipment matches
+    /// boards.maren.equipment), so a file can define its own named entries.
+    /// </summary>
+    public bool TryFind(string key, out KeySpec spec)
+    {
+        if (Keys.TryGetValue(key, out spec!)) return true;
+        var parts = key.Split('.');
+        foreach (var k in Keys.Values)
+        {
+            if (!k.Key.Contains('*')) continue;
+            var pp = k.Key.Split('.');
+            if (pp.Length != parts.Length) continue;
+            bool ok = true;
+            for (int i = 0; i < pp.Length && ok; i++)
+                ok = pp[i] == "*" ? IsName(parts[i]) : pp[i] == parts[i];
+            if (ok) { spec = k; return true; }
+        }
+        spec = null!;
+        return false;
+    }
+
+    static bool IsName(string s) => s.Length > 0 && s.All(c => char.IsAsciiLetterOrDigit(c) || c == '_' || c == '-');
+
+    public KeySpec Find(string key) => TryFind(key, out var s) ? s : throw new KeyNotFoundException($"no setting '{key}' in a {Kind} file");
+
     /// <summary>Tables a key may sit in, for error messages about unknown keys.</summary>
     public IEnumerable<string> KnownKeysNear(string key)
     {
-        int dot = key.LastIndexOf('.');
-        string prefix = dot < 0 ? "" : key[..(dot + 1)];
-        var near = Keys.Keys.Where(k => k.StartsWith(prefix, StringComparison.Ordinal) && k.IndexOf('.', prefix.Length) < 0).Order().ToList();
+        var parts = key.Split('.');
+        var near = Keys.Keys.Where(k =>
+        {
+            var kp = k.Split('.');
+            if (kp.Length != parts.Length) return false;
+            for (int i = 0; i < kp.Length - 1; i++) if (kp[i] != "*" && kp[i] != parts[i]) return false;
+            return true;
+        }).Order().ToList();
         return near.Count > 0 ? near : Keys.Keys.Order();
     }
 }

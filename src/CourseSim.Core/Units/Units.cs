@@ -24,4 +24,20 @@ public static class Unit
         double r = WrapDeg360(deg);
         return r > 180.0 ? r - 360.0 : r;
     }
+
+    /// <summary>Wraps an angle in radians to (-pi, pi].</summary>
+    public static double WrapRadPi(double rad)
+    {
+        // Fast path for the usual case (within one turn either side), exact for it; the remainder otherwise.
+        if (rad > -3 * Math.PI && rad <= 3 * Math.PI)
+        {
+            if (rad > Math.PI) return rad - 2 * Math.PI;
+            if (rad <= -Math.PI) return rad + 2 * Math.PI;
+            return rad;
+        }
+        double r = rad % (2 * Math.PI);
+        if (r > Math.PI) r -= 2 * Math.PI;
+        else if (r <= -Math.PI) r += 2 * Math.PI;
+        return r;
+    }
 }

@@ -40,19 +40,3 @@ public static class WindFile
         ShadowHalfWidthM = f.Number("wind.shadow_half_width_m"), ShadowSpread = f.Number("wind.shadow_spread"),
     };
 }
-
-/// <summary>Scenario files (docs/scenario.md). This version knows the scenario's name, venue and wind.</summary>
-public static class ScenarioFile
-{
-    public static readonly SettingsSchema Schema = new("scenario",
-    [
-        KeySpec.Text("name", "", "the scenario's name"),
-        KeySpec.Text("description", "", "what the scenario is for"),
-        KeySpec.Text("venue.name", "", "the venue's name"),
-        KeySpec.Number("venue.lat_deg", -90, 90, 0, "latitude of the course origin, deg"),
-        KeySpec.Number("venue.lon_deg", -180, 180, 0, "longitude of the course origin, deg"),
-        .. WindFile.Keys,
-    ]);
-
-    public static SettingsFile Load(string path, IEnumerable<string>? overrides = null) => SettingsFile.Load(path, Schema, overrides);
-}

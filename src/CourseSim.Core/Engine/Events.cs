@@ -1,0 +1,19 @@
+namespace CourseSim.Engine;
+
+public enum RaceEventKind : byte { Started, Ocs, Cleared, Rounded, WrongSide, Tack, Gybe, Fall, Finished, NotFinished }
+
+/// <summary>Something that happened in the race: when (s from the signal), where, to which board, and a detail.</summary>
+public readonly record struct RaceEvent(double TimeS, int Board, RaceEventKind Kind, double X, double Y, string Detail);
+
+/// <summary>One board's result.</summary>
+public sealed record BoardResult(int Board, string Name, string Equipment, int? Place, bool Finished, double? ElapsedS,
+    double? GapS, IReadOnlyList<double> SplitsS, double DistanceM, double AverageSpeedMs, int Tacks, int Gybes, int Falls,
+    bool Ocs, int WrongSide);
+
+/// <summary>The outcome of a race.</summary>
+public sealed record RaceResult(ulong Seed, string Scenario, double DurationS, IReadOnlyList<BoardResult> Boards,
+    IReadOnlyList<RaceEvent> Events, string EngineVersion)
+{
+    /// <summary>Results in finishing order (finished boards by elapsed time, then the rest by legs done).</summary>
+    public IEnumerable<BoardResult> ByPlace => Boards.OrderBy(b => b.Place ?? int.MaxValue).ThenByDescending(b => b.SplitsS.Count).ThenBy(b => b.Board);
+}

@@ -1,0 +1,123 @@
+using CourseSim.Courses;
+using CourseSim.Units;
+
+namespace CourseSim.Engine;
+
+public sealed partial class Race
+{
+    /// <summary>How far back from the line a rider waits for the start, m (common practice: a few lengths below the line).</summary>
+    public const double WaitBackM = 40;
+    /// <summary>Extra time riders allow to accelerate to speed on the way to the line, s (model value).</summary>
+    public const double AccelerationAllowanceS = 4;
+
+    Vec2[] _prev = [];
+
+    /// <summary>Lines the fleet up below the start line: each rider has a spot on the line and a waiting point below it.</summary>
+    void PlaceFleet()
+    {
+        _prev = new Vec2[BoardCount];
+        var line = Course.Start;
+        double tws = Unit.KnotsToMs(Setup.Wind.SpeedKn);
+        for (int b = 0; b < BoardCount; b++)
+        {
+            var entry = Setup.Boards[b];
+            var spot = line.A + entry.LinePosition * (line.B - line.A);
+            // The first leg's heading from the spot, on starboard when beating.
+            double h = LegHeading(b, spot, Course.Steps[0].Target, tws, Setup.Wind.DirectionDeg, 1);
+            var dir = Vec2.FromBearing(Unit.RadToDeg(h));
+            _spot[b] = spot;
+            _wait[b] = spot - WaitBackM * dir;
+            var rng = _tacticRng.For((ulong)b);
+            var start = _wait[b] - (30 + 30 * rng.Uniform(0)) * dir;
+            // Riders judge time to the line; the less skilled misjudge it more (from memory: club starts spread over ~5 s).
+            _goMargin[b] = 1.0 + rng.Normal(1) * (0.5 + 2.5 * (1 - _skill[b]));
+            var e = _entities[b];
+            World.Get<Pose>(e) = new Pose { X = start.X, Y = start.Y, Heading = h };
+            World.Get<Intent>(e).Heading = h;
+            _prev[b] = start;
+        }
+    }
+
+    /// <summary>
+    /// System 7, course progress: the start (early starters found at the signal must return below the line), mark
+    /// roundings on the required side (the wrong side is counted and does not count as rounding), gates and the finish.
+    /// Finished boards get the <see cref="Done"/> tag through the command buffer, applied after the step.
+    /// </summary>
+    void CourseProgress()
+    {
+        var line = Course.Start;
+        double t1 = Time + Dt;
+        foreach (var chunk in _active)
+        {
+            var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var st = chunk.Span<RaceStatus>();
+            var ents = chunk.Entities;
+            for (int i = 0; i < chunk.Count; i++)
+            {
+                int b = ids[i].Value;
+                var p0 = _prev[b]; var p1 = new Vec2(pose[i].X, pose[i].Y);
+                ref var s = ref st[i];
+                switch (s.State)
+                {
+                    case RaceState.PreStart:
+                        if (Time < 0 && t1 >= 0 && line.Ahead(p1) > 0 && WithinLine(line, p1))
+                        {
+                            s.State = RaceState.Returning; s.Ocs = true;
+                            AddEvent(b, RaceEventKind.Ocs, pose[i], "on the course side at the signal");
+                        }
+                        else if (t1 >= 0 && line.Ahead(p0) <= 0 && line.Ahead(p1) > 0 && Segment.Crosses(p0, p1, line.A, line.B, out _))
+                        {
+                            s.State = RaceState.Racing;
+                            s.StartedS = Math.Max(0, CrossTime(line, p0, p1));
+                            _events.Add(new RaceEvent(s.StartedS, b, RaceEventKind.Started, p1.X, p1.Y, s.Ocs ? "after returning" : ""));
+                        }
+                        break;
+                    case RaceState.Returning:
+                        if (line.Ahead(p1) < 0) { s.State = RaceState.PreStart; AddEvent(b, RaceEventKind.Cleared, pose[i], "back below the line"); }
+                        break;
+                    case RaceState.Racing:
+                    {
+                        int r = Course.Check(s.NextStep, p0, p1);
+                        var step = Course.Steps[s.NextStep];
+                        if (r > 0)
+                        {
+                            bool finish = step.Kind == StepKind.Finish;
+                            double at = finish ? CrossTime(step.Line!, p0, p1) : t1;
+                            _splits[b].Add(at);
+                            s.NextStep++;
+                            if (finish)
+                            {
+                                s.State = RaceState.Finished; s.FinishedS = at;
+                                _events.Add(new RaceEvent(at, b, RaceEventKind.Finished, p1.X, p1.Y, ""));
+                                _commands.Add(ents[i], new Done());
+                                _finished++;
+                            }
+                            else _events.Add(new RaceEvent(t1, b, RaceEventKind.Rounded, p1.X, p1.Y, $"{step.Name}"));
+                        }
+                        else if (r < 0)
+                        {
+                            s.WrongSide++;
+                            AddEvent(b, RaceEventKind.WrongSide, pose[i], $"passed {step.Name} on the wrong side: must go back round it");
+                        }
+                        break;
+                    }
+                }
+                _prev[b] = p1;
+            }
+        }
+    }
+
+    static bool WithinLine(CourseLine line, Vec2 p)
+    {
+        var d = (line.B - line.A).Unit();
+        double along = Vec2.Dot(p - line.A, d);
+        return along >= -5 && along <= line.Length + 5;
+    }
+
+    /// <summary>When (s from the signal) the step from p0 to p1, ending at Time + Dt, crossed the line (linear in the step).</summary>
+    double CrossTime(CourseLine line, Vec2 p0, Vec2 p1)
+    {
+        double a0 = line.Ahead(p0), a1 = line.Ahead(p1);
+        double u = a0 == a1 ? 1 : Math.Clamp(a0 / (a0 - a1), 0, 1);
+        return Time + u * Dt;
+    }
+}

@@ -1,0 +1,101 @@
+using CourseSim.Units;
+
+namespace CourseSim.Engine;
+
+public sealed partial class Race
+{
+    /// <summary>
+    /// System 6, manoeuvres. A heading change that takes the bow through the wind is a tack, through dead downwind a gybe;
+    /// either starts here when the tactic asks for a heading on the other tack. Tack: head up with the sail drawing (phase
+    /// 0) until the apparent wind is within <see cref="Tuning.TackCrossStartDeg"/> of the bow, step round the mast with no
+    /// drive while the board swings through the wind (1), bear away and sheet in on the new tack (2). Gybe: carve with the
+    /// sail drawing (0) until the wind crosses the stern, flip the sail with no drive (1), sheet in on the new gybe (2); a
+    /// gybe can fail into a fall. Falls also come from being overpowered: a hazard per second that grows with the heeling
+    /// moment beyond the rider's limit (a gust arriving faster than the rider eases). The time and distance a manoeuvre
+    /// costs come out of the dynamics: no fixed penalty is applied.
+    /// </summary>
+    void Manoeuvres()
+    {
+        foreach (var chunk in _active)
+        {
+            var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>(); var sw = chunk.Span<SensedWind>();
+            var trim = chunk.Span<Trim>(); var intent = chunk.Span<Intent>(); var man = chunk.Span<ManoeuvreState>(); var st = chunk.Span<RaceStatus>();
+            for (int i = 0; i < chunk.Count; i++)
+            {
+                int b = ids[i].Value;
+                ref var m = ref man[i];
+                double skill = _skill[b];
+                double twa = SignedAngle(sw[i].TrueFromDeg, pose[i].Heading);
+                var rng = _fallRng.For((ulong)b);
+                double track = pose[i].Heading - Math.Sign(twa) * mo[i].Leeway;
+                switch (m.Kind)
+                {
+                    case Manoeuvre.None:
+                    {
+                        // Overpowered: the hazard grows with the moment beyond the limit and with lack of skill.
+                        double over = trim[i].HeelUse - 1;
+                        if (Settings.Falls && over > 0.02 && Time > -Settings.CountdownS + 5)
+                        {
+                            double hazard = Tuning.OverpowerHazardPerS * over * (1 - 0.8 * skill);
+                            if (rng.Uniform((ulong)StepIndex * 2) < hazard * Dt) { Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "overpowered in a gust"); break; }
+                        }
+                        double wantTwa = SignedAngle(sw[i].TrueFromDeg, intent[i].Heading);
+                        if (Math.Sign(wantTwa) != Math.Sign(twa) && twa != 0 && wantTwa != 0)
+                        {
+                            // twa - turn passes 0 (a tack) or pi (a gybe) on the shortest way round.
+                            bool throughWind = Math.Abs(twa) + Math.Abs(wantTwa) < 2 * Math.PI - Math.Abs(twa) - Math.Abs(wantTwa);
+                            m.Kind = throughWind ? Manoeuvre.Tack : Manoeuvre.Gybe;
+                            m.Phase = 0; m.Timer = 0; m.ExitHeading = intent[i].Heading;
+                            m.TurnSign = throughWind ? Math.Sign(twa) : -Math.Sign(twa);
+                        }
+                        break;
+                    }
+                    case Manoeuvre.Tack:
+                        m.Timer += Dt;
+                        if (m.Phase == 0 && Math.Abs(trim[i].ApparentAngleRad) < Unit.DegToRad(Tuning.TackCrossStartDeg)) { m.Phase = 1; m.Timer = 0; }
+                        else if (m.Phase == 1 && Math.Sign(twa) == -Math.Sign(m.TurnSign) && Math.Abs(twa) >= Unit.DegToRad(Tuning.TackCrossStartDeg))
+                        {
+                            m.Phase = 2; m.Timer = 0; st[i].Tacks++;
+                            AddEvent(b, RaceEventKind.Tack, pose[i]);
+                        }
+                        else if (m.Phase == 2 && Math.Abs(Unit.WrapRadPi(m.ExitHeading - track)) < Unit.DegToRad(3)) { m.Kind = Manoeuvre.None; m.Phase = 0; }
+                        // A tack the rider cannot finish (stalled head to wind for long) ends in a fall.
+                        if (m.Kind == Manoeuvre.Tack && m.Timer > 20) Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "stalled in a tack");
+                        break;
+                    case Manoeuvre.Gybe:
+                        m.Timer += Dt;
+                        if (m.Phase == 0 && Math.Sign(twa) == Math.Sign(m.TurnSign))
+                        {
+                            m.Phase = 1; m.Timer = 0; st[i].Gybes++;
+                            AddEvent(b, RaceEventKind.Gybe, pose[i]);
+                            double fail = trim[i].Planing ? Tuning.GybeFailNovicePlaning : Tuning.GybeFailNoviceDisplacement;
+                            fail *= (1 - skill) * (1 - skill);
+                            if (Settings.Falls && rng.Uniform((ulong)StepIndex * 2 + 1) < fail) { Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "failed gybe"); break; }
+                        }
+                        else if (m.Phase == 1 && m.Timer >= Tuning.Lerp(Tuning.GybeFlipExpertS, Tuning.GybeFlipNoviceS, skill)) { m.Phase = 2; m.Timer = 0; }
+                        else if (m.Phase == 2 && Math.Abs(Unit.WrapRadPi(m.ExitHeading - track)) < Unit.DegToRad(3)) { m.Kind = Manoeuvre.None; m.Phase = 0; }
+                        if (m.Kind == Manoeuvre.Gybe && m.Timer > 30) { m.Kind = Manoeuvre.None; m.Phase = 0; }
+                        break;
+                    case Manoeuvre.Fallen:
+                        m.Timer += Dt;
+                        if (m.Timer >= Tuning.Lerp(Tuning.WaterStartExpertS, Tuning.WaterStartNoviceS, skill))
+                        {
+                            // Water-started on a beam reach on the tack the board lies on.
+                            m.Kind = Manoeuvre.None; m.Phase = 0;
+                            double side = twa >= 0 ? 1 : -1;
+                            pose[i].Heading = Unit.WrapRadPi(Unit.DegToRad(sw[i].TrueFromDeg) - side * Math.PI / 2);
+                            trim[i].Sheet = 0;
+                        }
+                        break;
+                }
+            }
+        }
+    }
+
+    void Fall(ref ManoeuvreState m, ref RaceStatus st, int board, in Pose p, double speed, string why)
+    {
+        m.Kind = Manoeuvre.Fallen; m.Phase = 0; m.Timer = 0;
+        st.Falls++;
+        AddEvent(board, RaceEventKind.Fall, p, $"{why} at {Unit.MsToKnots(speed):F1} kn");
+    }
+}

@@ -1,0 +1,185 @@
+using CourseSim.Units;
+using CourseSim.Wind;
+
+namespace CourseSim.Engine;
+
+public sealed partial class Race
+{
+    /// <summary>Signed true wind angle (rad): positive when the wind comes over the starboard side (starboard tack).</summary>
+    public static double SignedAngle(double fromDeg, double headingRad) => Unit.WrapRadPi(Unit.DegToRad(fromDeg) - headingRad);
+
+    /// <summary>
+    /// System 1, sense wind: the wind field at each rig with the shadows of every other sail, and the rider's reading of
+    /// it, which lags the true wind by <see cref="Tuning.PerceptionLagS"/>. The wind is sampled at
+    /// race.wind_hz (default 5 Hz), each board in turn (staggered over the steps, so every step costs the same): in
+    /// 0.2 s a board moves a few metres and the field's patterns a metre or two, less than the gust tile resolves, so
+    /// sampling faster changes nothing but the cost. Shadows are rebuilt at the same rate from the boards' positions
+    /// and apparent winds (a uniform grid, no all-pairs).
+    /// </summary>
+    void SenseWind()
+    {
+        int every = _senseEvery;
+        int phase = (int)(StepIndex % every);
+        if (phase == 0)
+        {
+            foreach (var chunk in _all)
+            {
+                var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var trim = chunk.Span<Trim>(); var sw = chunk.Span<SensedWind>();
+                var st = chunk.Span<RaceStatus>();
+                for (int i = 0; i < chunk.Count; i++)
+                {
+                    var rig = _rigs[ids[i].Value].Rig;
+                    double appFrom = Unit.WrapDeg360(Unit.RadToDeg(pose[i].Heading + trim[i].ApparentAngleRad));
+                    // A finished board sails off the course and leaves no wake.
+                    double wind = st[i].State == RaceState.Finished ? 0 : sw[i].TrueSpeed;
+                    _sources[ids[i].Value] = new ShadowSource(pose[i].X, pose[i].Y, appFrom, rig.MastHeightM, wind);
+                }
+            }
+            Shadow.Build(_sources);
+        }
+        double k = Math.Min(1, every * Dt / Tuning.PerceptionLagS);
+        bool first = StepIndex == 0;
+        foreach (var chunk in _active)
+        {
+            var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var sw = chunk.Span<SensedWind>();
+            for (int i = 0; i < chunk.Count; i++)
+            {
+                int b = ids[i].Value;
+                if (!first && (b + phase) % every != 0) continue;
+                var w = Wind.Sample(pose[i].X, pose[i].Y, Time);
+                w = Shadow.Apply(w, pose[i].X, pose[i].Y, b);
+                ref var s = ref sw[i];
+                s.TrueSpeed = w.SpeedMs; s.TrueFromDeg = w.FromDeg;
+                s.FromRad = Unit.DegToRad(w.FromDeg); s.FromSin = Math.Sin(s.FromRad); s.FromCos = Math.Cos(s.FromRad);
+                s.RigSpeed = w.SpeedMs * _rigs[b].Rig.GradientFactor(w.SpeedMs);
+                if (first) { s.PerceivedSpeed = w.SpeedMs; s.PerceivedFromDeg = w.FromDeg; }
+                else
+                {
+                    s.PerceivedSpeed += k * (w.SpeedMs - s.PerceivedSpeed);
+                    s.PerceivedFromDeg = Unit.WrapDeg360(s.PerceivedFromDeg + k * Unit.WrapDeg180(w.FromDeg - s.PerceivedFromDeg));
+                }
+            }
+        }
+    }
+
+    /// <summary>
+    /// Systems 3 and 4, trim and forces. The rider sheets towards the power the tactic wants, capped by what the heeling
+    /// limit allows in the apparent wind now; the sheet follows with the rider's reaction lag, so a gust briefly loads the
+    /// rider past the limit (and may topple them). Forces: sail (rig tables), fin (side force and drag, ventilation at
+    /// speed makes the rider ease), hull (resistance), pumping below planing while the reserve lasts, and the rider's
+    /// drag in the water after a fall.
+    /// </summary>
+    void TrimAndForces()
+    {
+        foreach (var chunk in _active)
+        {
+            var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>(); var sw = chunk.Span<SensedWind>();
+            var trim = chunk.Span<Trim>(); var rider = chunk.Span<RiderState>(); var intent = chunk.Span<Intent>(); var man = chunk.Span<ManoeuvreState>();
+            var st = chunk.Span<RaceStatus>();
+            for (int i = 0; i < chunk.Count; i++)
+            {
+                int b = ids[i].Value;
+                var rig = _rigs[b].Rig;
+                ref var t = ref trim[i];
+                double v = mo[i].Speed;
+                double track = pose[i].Heading - Math.Sign(t.TrueAngleRad) * mo[i].Leeway;
+                // Apparent wind from the true wind at the rig and the board's velocity along its track.
+                ref readonly var w = ref sw[i];
+                double st0 = Math.Sin(track), ct0 = Math.Cos(track);
+                double ax = -w.RigSpeed * w.FromSin - v * st0, ay = -w.RigSpeed * w.FromCos - v * ct0;
+                double aws = Math.Sqrt(ax * ax + ay * ay);
+                double appFrom = Math.Atan2(-ax, -ay);
+                double beta = Unit.WrapRadPi(appFrom - track);
+                t.TrueAngleRad = Unit.WrapRadPi(w.FromRad - pose[i].Heading);
+                t.ApparentSpeed = aws;
+                t.ApparentAngleRad = Unit.WrapRadPi(appFrom - pose[i].Heading);
+                double absBeta = Math.Abs(beta);
+                // Sheet: what the tactic wants, capped by the heel limit, followed with the rider's reaction lag (so a
+                // gust briefly loads the rider past the limit); no drive while crossing, flipping or swimming.
+                bool noDrive = man[i].Kind == Manoeuvre.Fallen || (man[i].Kind == Manoeuvre.Tack && man[i].Phase == 1) || (man[i].Kind == Manoeuvre.Gybe && man[i].Phase == 1);
+                double want = noDrive ? 0 : Math.Min(intent[i].Power, rig.MaxSheetFraction(aws, absBeta));
+                t.Sheet = noDrive ? 0 : t.Sheet + _sheetGain[b] * (want - t.Sheet);
+                var sail = rig.Sail(aws, absBeta, t.Sheet);
+                if (v >= Equilibrium.BoardPhysics.SpinOutMinSpeed && Math.Abs(sail.Side) > rig.FinCapacity(v))
+                {
+                    // The fin would ventilate: the rider eases at once (a reflex) until it grips.
+                    t.Sheet = rig.FinSheetCap(aws, absBeta, v, t.Sheet);
+                    sail = rig.Sail(aws, absBeta, t.Sheet);
+                }
+                double drive = sail.Drive, side = sail.Side, heel = sail.HeelUse;
+                if (noDrive) { drive = Math.Min(drive, 0); side = 0; heel = 0; }
+                double finDrag = rig.Fin(side, v, out double leeway, out _);
+                var hull = rig.Physics.Hull.At(v);
+                t.AttackRad = sail.AttackRad; t.HeelUse = heel;
+                // Heel use against the limit with the sheet the rider holds (lagging a gust): above 1 the rider is overpowered.
+                t.Drive = drive; t.Side = side; t.FinDrag = finDrag; t.HullDrag = hull.Resistance;
+                t.Planing = hull.LiftFraction >= 0.5;
+                mo[i].Leeway = leeway;
+                // Pumping: below planing, driving, not manoeuvring, while the reserve is above the floor.
+                var rm = rig.Physics.Rider;
+                // Out of breath at the floor, the rider rests until the reserve is back to RestUntil (hysteresis).
+                if (rider[i].ReserveJ <= Tuning.ReserveFloor * rm.ReserveJ) rider[i].Resting = true;
+                else if (rider[i].ReserveJ >= Tuning.RestUntil * rm.ReserveJ) rider[i].Resting = false;
+                bool pump = Settings.Pumping && !t.Planing && !noDrive && man[i].Kind == Manoeuvre.None && intent[i].Power >= 0.99
+                            && st[i].State != RaceState.PreStart && !rider[i].Resting && aws > 2;
+                double power = pump ? rm.PowerFor(Equilibrium.VelocityPrediction.PumpBurstS) : 0;
+                rider[i].PumpPowerW = power;
+                if (power > 0 || rider[i].ReserveJ < rm.ReserveJ) rider[i].ReserveJ = rm.StepReserve(rider[i].ReserveJ, power, Dt);
+                t.Pumping = pump;
+                t.PumpThrust = pump ? rm.PumpThrust(power, v) : 0;
+            }
+        }
+    }
+
+    /// <summary>
+    /// System 5, integrate: surge from the net force on the whole mass (semi-implicit Euler); sway as the fin's leeway
+    /// (the side force is balanced within a step at these speeds); yaw rate-limited towards the wanted heading, at the
+    /// larger of the rig-steering rate and the carving rate V/R.
+    /// </summary>
+    void Integrate()
+    {
+        foreach (var chunk in _active)
+        {
+            var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>();
+            var trim = chunk.Span<Trim>(); var intent = chunk.Span<Intent>(); var man = chunk.Span<ManoeuvreState>();
+            for (int i = 0; i < chunk.Count; i++)
+            {
+                int b = ids[i].Value;
+                var rig = _rigs[b].Rig;
+                ref var m = ref mo[i]; ref var p = ref pose[i]; ref var t = ref trim[i];
+                double v = m.Speed;
+                double water = man[i].Kind == Manoeuvre.Fallen ? 0.5 * 1025 * v * v * Tuning.InWaterDragAreaM2 : 0;
+                double net = t.Drive + t.PumpThrust - t.FinDrag - t.HullDrag - water;
+                v = Math.Max(0, v + Dt * net / rig.MassKg);
+                m.Speed = v;
+                // Yaw.
+                double rate = YawRate(b, v, man[i]);
+                double want = man[i].Kind == Manoeuvre.None ? intent[i].Heading : WantedHeading(man[i], p.Heading);
+                // The tactic's heading is the course to make good through the water: steer the track (heading less leeway) onto it.
+                double side = Math.Sign(t.TrueAngleRad);
+                double d = Unit.WrapRadPi(want - (p.Heading - side * m.Leeway));
+                if (man[i].Kind is Manoeuvre.Tack or Manoeuvre.Gybe && man[i].Phase < 2) d = man[i].TurnSign * Math.PI; // keep turning the chosen way
+                if (man[i].Kind == Manoeuvre.Fallen) d = 0;
+                double turn = Math.Clamp(d, -rate * Dt, rate * Dt);
+                m.YawRate = turn / Dt;
+                p.Heading = Unit.WrapRadPi(p.Heading + turn);
+                double track = p.Heading - side * m.Leeway;
+                p.X += v * Dt * Math.Sin(track);
+                p.Y += v * Dt * Math.Cos(track);
+                if (Time >= 0) m.Distance += v * Dt;
+            }
+        }
+    }
+
+    double YawRate(int board, double speed, in ManoeuvreState man)
+    {
+        double skill = _skill[board];
+        double rig = Unit.DegToRad(Tuning.RigSteerDegPerS);
+        if (man.Kind == Manoeuvre.Tack && man.Phase == 1)
+            return Unit.DegToRad(2 * Tuning.TackCrossStartDeg) / Tuning.Lerp(Tuning.TackCrossExpertS, Tuning.TackCrossNoviceS, skill);
+        double carve = speed / Tuning.Lerp(Tuning.CarveRadiusExpertM, Tuning.CarveRadiusNoviceM, skill);
+        return Math.Min(Unit.DegToRad(Tuning.MaxYawDegPerS), Math.Max(rig, carve));
+    }
+
+    static double WantedHeading(in ManoeuvreState man, double heading) => man.Phase >= 2 ? man.ExitHeading : heading;
+}

@@ -1,0 +1,158 @@
+using CourseSim.Courses;
+using CourseSim.Units;
+
+namespace CourseSim.Engine;
+
+public sealed partial class Race
+{
+    /// <summary>Least time between two tacks or gybes the simple tactic allows, s (model value: keeps it from dithering in shifts).</summary>
+    public const double MinTimeBetweenTurnsS = 12;
+    /// <summary>Distance off a mark, towards the outside of the turn, that a rider aims at, m (common practice: round close but clear).</summary>
+    public const double RoundingOffsetM = 8;
+    /// <summary>Overstand allowed past the layline before tacking or gybing, deg (model value).</summary>
+    public const double LaylineMarginDeg = 2;
+    /// <summary>Within this distance of the aim point a running rider steers straight at it, m (model value).</summary>
+    public const double CloseRunM = 40;
+
+    double[] _lastTurn = [];
+    bool[] _holding = [], _going = [];
+    double[] _holdTwa = [];
+    double _speedOf(int b) => World.Get<Motion>(_entities[b]).Speed;
+
+    /// <summary>
+    /// Pins a board to a true wind angle (deg, positive = starboard tack) at full power, whatever its tactic: the engine's
+    /// own polar check. NaN releases it.
+    /// </summary>
+    public void HoldTrueWindAngle(int board, double twaDeg)
+    {
+        if (_holdTwa.Length != BoardCount) { _holdTwa = new double[BoardCount]; Array.Fill(_holdTwa, double.NaN); }
+        _holdTwa[board] = twaDeg;
+        var e = _entities[board];
+        World.Get<Pose>(e).Heading = Unit.WrapRadPi(Unit.DegToRad(Setup.Wind.DirectionDeg - twaDeg));
+        World.Get<Intent>(e).Heading = World.Get<Pose>(e).Heading;
+    }
+
+    /// <summary>
+    /// System 2, decide: each rider decides at a human rate (every race.decision_interval_s, staggered across the fleet)
+    /// from what they perceive (the lagged wind at their rig, their own rig's polar, the course). This engine ships one
+    /// tactic, "vmg-layline": sail the best VMG angle on a beat or run and tack or gybe on the layline to the next mark;
+    /// sail straight at the mark on a reach; line up below the start line and go on time-on-distance; return if early.
+    /// </summary>
+    void Decide()
+    {
+        if (_lastTurn.Length != BoardCount) { _lastTurn = new double[BoardCount]; Array.Fill(_lastTurn, double.NegativeInfinity); _holding = new bool[BoardCount]; _going = new bool[BoardCount]; }
+        foreach (var chunk in _active)
+        {
+            var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var sw = chunk.Span<SensedWind>(); var intent = chunk.Span<Intent>();
+            var st = chunk.Span<RaceStatus>(); var man = chunk.Span<ManoeuvreState>();
+            for (int i = 0; i < chunk.Count; i++)
+            {
+                ref var it = ref intent[i];
+                if (Time < it.NextDecisionS) continue;
+                it.NextDecisionS += Settings.DecisionIntervalS;
+                if (man[i].Kind != Manoeuvre.None) continue; // busy: no new decision mid-manoeuvre
+                int b = ids[i].Value;
+                var p = new Vec2(pose[i].X, pose[i].Y);
+                double tws = sw[i].PerceivedSpeed, from = sw[i].PerceivedFromDeg;
+                double twaNow = SignedAngle(from, pose[i].Heading);
+                int tack = twaNow >= 0 ? 1 : -1;
+                bool mayTurn = Time - _lastTurn[b] >= MinTimeBetweenTurnsS;
+                double heading, power = 1;
+                if (_holdTwa.Length > b && !double.IsNaN(_holdTwa[b]))
+                {
+                    // Pinned to a true wind angle (polar checks): steer by the true wind at the rig, full power.
+                    it.Heading = Unit.WrapRadPi(Unit.DegToRad(sw[i].TrueFromDeg - _holdTwa[b])); it.Power = 1;
+                    continue;
+                }
+                switch (st[i].State)
+                {
+                    case RaceState.PreStart when Time < 0:
+                    {
+                        // Time on distance: hold below the line, then go so as to reach the spot at the planned time
+                        // (the signal plus this rider's margin); ease off when early, luff when at the line too soon.
+                        double h = LegHeading(b, p, _spot[b], tws, from, tack, true);
+                        double vPolar = Math.Max(1.0, _rigs[b].Speed(tws, SignedAngle(from, h)));
+                        double dist = (_spot[b] - p).Length;
+                        double remaining = _goMargin[b] - Time;
+                        double eta = dist / vPolar + (_speedOf(b) < 0.7 * vPolar ? AccelerationAllowanceS : 0);
+                        if (!_holding[b] && (_wait[b] - p).Length < 8) _holding[b] = true;
+                        if (remaining <= eta || _going[b])
+                        {
+                            // Going: sail the first leg from here on the tack the board is on; luff if at the line too soon.
+                            _going[b] = true; _holding[b] = true;
+                            heading = LegHeading(b, p, AimPoint(0, p), tws, from, tack, false);
+                            power = Course.Start.Ahead(p) > -3 && Time < -1 ? 0 : 1;
+                        }
+                        else if (!_holding[b]) { heading = LegHeading(b, p, _wait[b], tws, from, tack, true); power = 0.6; }
+                        else { heading = pose[i].Heading; power = 0; }
+                        break;
+                    }
+                    case RaceState.PreStart:
+                        heading = LegHeading(b, p, _spot[b], tws, from, tack, mayTurn);
+                        break;
+                    case RaceState.Returning:
+                        heading = LegHeading(b, p, _wait[b], tws, from, tack, mayTurn);
+                        break;
+                    default:
+                        heading = LegHeading(b, p, AimPoint(st[i].NextStep, p), tws, from, tack, mayTurn);
+                        break;
+                }
+                if (Math.Sign(SignedAngle(from, heading)) != tack) _lastTurn[b] = Time;
+                it.Heading = heading; it.Power = power;
+            }
+        }
+    }
+
+    /// <summary>
+    /// Where a rider aims for step i. A mark is approached by an entry point beside it on the side it is to be left
+    /// (outside the incoming leg), then an exit point just outside it on the rounding ray, so the track goes round it the
+    /// required way; close to the exit point the rider already looks to the step after.
+    /// </summary>
+    Vec2 AimPoint(int step, Vec2 p)
+    {
+        var s = Course.Steps[step];
+        if (s.Kind != StepKind.Mark) return s.Target;
+        var mark = s.Target;
+        var din = Course.Incoming(step);
+        var sideDir = s.Side == Rounding.Port ? new Vec2(din.Y, -din.X) : new Vec2(-din.Y, din.X);
+        var rel = p - mark;
+        bool correctSide = Vec2.Dot(rel, sideDir) > 0;
+        bool reached = Vec2.Dot(rel, din) >= -RoundingOffsetM;
+        if (!reached || !correctSide) return mark + RoundingOffsetM * sideDir;
+        var exit = mark + RoundingOffsetM * Course.Outside(step);
+        if ((exit - p).Length > 4 || step + 1 >= Course.Steps.Count) return exit;
+        return Course.Steps[step + 1].Target;
+    }
+
+    /// <summary>
+    /// The heading (rad) to make good towards <paramref name="target"/>: straight at it when it lies between the best
+    /// upwind and downwind VMG angles; otherwise at the best VMG angle on the present tack (or gybe), turning onto the
+    /// other when the target can be fetched from it (the layline), if turning is allowed now.
+    /// </summary>
+    double LegHeading(int b, Vec2 p, Vec2 target, double tws, double fromDeg, int tack, bool mayTurn = true)
+    {
+        var rig = _rigs[b];
+        var d = target - p;
+        double wind = Unit.DegToRad(fromDeg);
+        if (d.Length < 1e-6) return wind - tack * Math.PI / 2;
+        double bearing = Unit.DegToRad(d.Bearing);
+        double direct = Unit.WrapRadPi(wind - bearing); // signed TWA of the direct course
+        double up = rig.BestTwa(tws, true), down = rig.BestTwa(tws, false);
+        double margin = Unit.DegToRad(LaylineMarginDeg);
+        // The target is on the layline of the other tack (or gybe) when its direct TWA, on that side, has reached the
+        // best VMG angle; until then the present one is held.
+        bool otherSide = -tack * direct > 0;
+        if (Math.Abs(direct) < up)
+        {
+            bool fetchOther = otherSide && Math.Abs(direct) >= up - margin;
+            return Unit.WrapRadPi(wind - (fetchOther && mayTurn ? -tack : tack) * up);
+        }
+        // Close to the aim point on a run the rider steers straight at it: gybing angles gain nothing over a few lengths.
+        if (Math.Abs(direct) > down && d.Length > CloseRunM)
+        {
+            bool fetchOther = otherSide && Math.Abs(direct) <= down + margin;
+            return Unit.WrapRadPi(wind - (fetchOther && mayTurn ? -tack : tack) * down);
+        }
+        return bearing;
+    }
+}

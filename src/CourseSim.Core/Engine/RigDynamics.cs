@@ -1,0 +1,212 @@
+using CourseSim.Environment;
+using CourseSim.Equilibrium;
+using CourseSim.Units;
+
+namespace CourseSim.Engine;
+
+/// <summary>Sail forces for one step: drive and side force (N), attack angle, and the share of the rider's heeling limit in use.</summary>
+public readonly record struct SailForce(double Drive, double Side, double AttackRad, double HeelUse, double SheetFraction);
+
+/// <summary>
+/// One set-up's physics resolved into tables the race step can read in nanoseconds (docs/engine.md, "Rig tables").
+/// The rider's trim is tabulated against the apparent wind angle beta and the "sheet fraction" f: the sail-side force
+/// coefficient as a share of the one at the rider's best unconstrained trim. Because every sail force scales with
+/// 0.5 rho AWS^2, the best trim at full power does not depend on the apparent wind speed; the heeling limit then sets the
+/// largest f the rider can hold, f_max = M_max / (q A z_CE |c_s*|), and the best trim with side coefficient no larger
+/// than f |c_s*| is read from the table. The trim maximises the rig's drive (sail and rider windage); the fin's drag,
+/// a few per cent of the drive when planing, is left out of the choice of trim (it is kept in the forces).
+/// Built once per set-up and shared (immutable).
+/// </summary>
+public sealed class RigDynamics
+{
+    const int BetaSteps = 180;          // 1 deg
+    const int FSteps = 40;              // f = 0, 1/40 .. 1
+    const double AlphaStepRad = 0.25 * Math.PI / 180;
+    const double GradientStep = 0.25, GradientMax = 40;   // m/s at 10 m
+
+    public BoardPhysics Physics { get; }
+    public Equipment Equipment => Physics.Equipment;
+    public double MassKg { get; }
+    public double SailAreaM2 { get; }
+    public double CentreOfEffortM { get; }
+    public double MaxHeelingMomentNm { get; }
+    public double MastHeightM { get; }
+    readonly double _rhoAir, _rhoWater, _nu;
+    // [beta, f] tables, normalised by q A: drive, total side, sail side (for heel); and the attack angle
+    readonly float[] _drive, _side, _sailSide, _alpha;
+    readonly double[] _fullSailSide; // |c_s*| per beta at the best unconstrained trim
+    readonly double[] _gradient;
+    readonly double[] _finProfile; // fin profile drag coefficient by water speed
+    const double FinStep = 0.05, FinMax = 40;
+
+    public RigDynamics(Equipment eq)
+    {
+        Physics = new BoardPhysics(eq);
+        MassKg = eq.TotalMassKg;
+        SailAreaM2 = Physics.Sail.AreaM2;
+        CentreOfEffortM = Physics.Sail.CentreOfEffortM;
+        MaxHeelingMomentNm = Physics.Rider.MaxHeelingMomentNm;
+        MastHeightM = Physics.Sail.LuffM + BoardPhysics.DeckHeightM;
+        _rhoAir = Physics.AirDensity; _rhoWater = Physics.WaterDensity; _nu = Physics.WaterViscosity;
+        int nb = BetaSteps + 1, nf = FSteps + 1;
+        _drive = new float[nb * nf]; _side = new float[nb * nf]; _sailSide = new float[nb * nf]; _alpha = new float[nb * nf];
+        _fullSailSide = new double[nb];
+        BuildTrimTable(nb, nf);
+        _gradient = new double[(int)(GradientMax / GradientStep) + 2];
+        for (int i = 0; i < _gradient.Length; i++) _gradient[i] = WindGradient.Factor(i * GradientStep, Physics.RigHeightM);
+        _finProfile = new double[(int)(FinMax / FinStep) + 2];
+        for (int i = 0; i < _finProfile.Length; i++) _finProfile[i] = Physics.Fin.ProfileDrag(i * FinStep, _nu);
+    }
+
+    void BuildTrimTable(int nb, int nf)
+    {
+        var sail = Physics.Sail;
+        double cr = Equipment.Rider.DragAreaM2 / sail.AreaM2;
+        double minBoom = Unit.DegToRad(BoardPhysics.MinBoomAngleDeg);
+        double luff = sail.LuffAngle - Unit.DegToRad(2);
+        int maxN = (int)(Math.PI / AlphaStepRad) + 2;
+        var dr = new double[maxN]; var sd = new double[maxN]; var ss = new double[maxN]; var al = new double[maxN];
+        for (int b = 0; b < nb; b++)
+        {
+            double beta = Unit.DegToRad(b);
+            double sb = Math.Sin(beta), cb = Math.Cos(beta);
+            double lo = Math.Max(luff, beta - Unit.DegToRad(95)), hi = Math.Min(beta - minBoom, Math.PI / 2);
+            int n;
+            if (hi <= lo) { n = 1; al[0] = luff; }
+            else { n = (int)Math.Ceiling((hi - lo) / AlphaStepRad) + 1; for (int i = 0; i < n; i++) al[i] = lo + (hi - lo) * i / (n - 1.0); }
+            int best = 0;
+            for (int i = 0; i < n; i++)
+            {
+                var c = sail.At(al[i]);
+                dr[i] = c.Lift * sb - (c.Drag + cr) * cb;
+                ss[i] = Math.Abs(c.Lift * cb + c.Drag * sb);
+                sd[i] = c.Lift * cb + c.Drag * sb + cr * sb;
+                if (dr[i] > dr[best]) best = i;
+            }
+            if (hi <= lo) dr[0] = Math.Min(dr[0], 0); // head to wind: the sail only luffs
+            _fullSailSide[b] = Math.Max(ss[best], 1e-6);
+            for (int k = 0; k < nf; k++)
+            {
+                double limit = _fullSailSide[b] * k / FSteps;
+                int pick = -1;
+                for (int i = 0; i < n; i++)
+                    if (ss[i] <= limit + 1e-12 && (pick < 0 || dr[i] > dr[pick])) pick = i;
+                if (pick < 0) // even the luffing sail makes more side force than allowed: luff (the least side force)
+                {
+                    pick = 0;
+                    for (int i = 1; i < n; i++) if (ss[i] < ss[pick]) pick = i;
+                }
+                int j = b * nf + k;
+                _drive[j] = (float)dr[pick]; _side[j] = (float)sd[pick]; _sailSide[j] = (float)ss[pick]; _alpha[j] = (float)al[pick];
+            }
+        }
+    }
+
+    /// <summary>Ratio of wind at the rig's centre of effort to the 10 m wind (log law, tabulated).</summary>
+    public double GradientFactor(double u10)
+    {
+        double x = Math.Clamp(u10, 0, GradientMax) / GradientStep;
+        int i = Math.Min((int)x, _gradient.Length - 2);
+        return _gradient[i] + (x - i) * (_gradient[i + 1] - _gradient[i]);
+    }
+
+    /// <summary>Largest sheet fraction the rider can hold at apparent wind speed <paramref name="aws"/> (m/s) and angle beta (rad, 0..pi).</summary>
+    public double MaxSheetFraction(double aws, double betaRad)
+    {
+        double q = 0.5 * _rhoAir * aws * aws;
+        double full = q * SailAreaM2 * CentreOfEffortM * FullSailSide(betaRad);
+        return full <= MaxHeelingMomentNm ? 1.0 : MaxHeelingMomentNm / full;
+    }
+
+    double FullSailSide(double betaRad)
+    {
+        double x = Math.Clamp(Unit.RadToDeg(betaRad), 0, BetaSteps);
+        int i = Math.Min((int)x, BetaSteps - 1);
+        return _fullSailSide[i] + (x - i) * (_fullSailSide[i + 1] - _fullSailSide[i]);
+    }
+
+    /// <summary>Sail force at apparent wind speed (m/s) and angle beta (rad, 0..pi) with sheet fraction f (0..1).</summary>
+    public SailForce Sail(double aws, double betaRad, double f)
+    {
+        double x = Math.Clamp(Unit.RadToDeg(betaRad), 0, BetaSteps);
+        int i = Math.Min((int)x, BetaSteps - 1);
+        double fx = x - i;
+        double y = Math.Clamp(f, 0, 1) * FSteps;
+        int k = Math.Min((int)y, FSteps - 1);
+        double fy = y - k;
+        const int nf = FSteps + 1;
+        int j00 = i * nf + k, j10 = j00 + nf;
+        double w00 = (1 - fx) * (1 - fy), w01 = (1 - fx) * fy, w10 = fx * (1 - fy), w11 = fx * fy;
+        double cd = w00 * _drive[j00] + w01 * _drive[j00 + 1] + w10 * _drive[j10] + w11 * _drive[j10 + 1];
+        double cs = w00 * _side[j00] + w01 * _side[j00 + 1] + w10 * _side[j10] + w11 * _side[j10 + 1];
+        double css = w00 * _sailSide[j00] + w01 * _sailSide[j00 + 1] + w10 * _sailSide[j10] + w11 * _sailSide[j10 + 1];
+        double a = w00 * _alpha[j00] + w01 * _alpha[j00 + 1] + w10 * _alpha[j10] + w11 * _alpha[j10 + 1];
+        double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
+        return new SailForce(qa * cd, qa * cs, a, qa * css * CentreOfEffortM / MaxHeelingMomentNm, f);
+    }
+
+    /// <summary>
+    /// Fin drag (N) and leeway (rad) carrying side force <paramref name="side"/> (N) at water speed V (m/s), with the
+    /// saturated-fin rule of <see cref="BoardPhysics.Evaluate(in ApparentWind, double, double)"/>; spun is true when the fin
+    /// ventilates at speed.
+    /// </summary>
+    public double Fin(double side, double speed, out double leewayRad, out bool spun)
+    {
+        var fin = Physics.Fin;
+        double x = Math.Clamp(speed, 0, FinMax) / FinStep;
+        int i = Math.Min((int)x, _finProfile.Length - 2);
+        double cd0 = _finProfile[i] + (x - i) * (_finProfile[i + 1] - _finProfile[i]);
+        double qf = 0.5 * _rhoWater * speed * speed * fin.AreaM2;
+        spun = false;
+        if (qf < 1e-9) { leewayRad = 0; return 0; }
+        double cl = Math.Abs(side) / qf;
+        double maxLift = fin.Spec.MaxLift;
+        double drag;
+        if (cl > maxLift)
+        {
+            // Saturated fin: it carries its maximum, the rails carry the rest at a poor lift-to-drag ratio.
+            spun = speed >= BoardPhysics.SpinOutMinSpeed;
+            drag = qf * (cd0 + Wings.WingTheory.InducedDrag(maxLift, fin.EffectiveAspectRatio, CourseSim.Fin.FinModel.SpanEfficiency))
+                   + (Math.Abs(side) - maxLift * qf) / BoardPhysics.HullSideLiftToDrag;
+        }
+        else drag = qf * (cd0 + Wings.WingTheory.InducedDrag(cl, fin.EffectiveAspectRatio, CourseSim.Fin.FinModel.SpanEfficiency));
+        leewayRad = Math.Min(cl / fin.LiftSlope, maxLift / fin.LiftSlope * 1.5);
+        return drag;
+    }
+
+    /// <summary>Largest side force (N) the fin carries at water speed V before it ventilates.</summary>
+    public double FinCapacity(double speed) => Physics.Fin.Spec.MaxLift * 0.5 * _rhoWater * speed * speed * Physics.Fin.AreaM2;
+
+    /// <summary>
+    /// Largest sheet fraction whose side force the fin carries at water speed V without ventilating (1 if the fin holds
+    /// full power, or the board is too slow to spin out): the rider sheets out, as the velocity prediction's trim does.
+    /// </summary>
+    public double FinSheetCap(double aws, double betaRad, double speed, double upper)
+    {
+        if (speed < BoardPhysics.SpinOutMinSpeed) return upper;
+        double cap = FinCapacity(speed);
+        if (Math.Abs(Sail(aws, betaRad, upper).Side) <= cap) return upper;
+        double lo = 0, hi = upper;
+        for (int i = 0; i < 12; i++)
+        {
+            double mid = 0.5 * (lo + hi);
+            if (Math.Abs(Sail(aws, betaRad, mid).Side) <= cap) lo = mid; else hi = mid;
+        }
+        return lo;
+    }
+
+    /// <summary>
+    /// Net surge force (N) for steady sailing at true wind angle <paramref name="twaRad"/> (0..pi) and water speed V in a
+    /// wind <paramref name="windAtRig"/> (m/s at the rig), at the largest sheet fraction the rider can hold (heel and fin
+    /// limits): the force the engine integrates, used to build the rig's own polar for tactics.
+    /// </summary>
+    public double SteadyNetForce(double windAtRig, double twaRad, double speed, double sheetCap = 1)
+    {
+        var aw = ApparentWind.From(windAtRig, twaRad, speed);
+        double f = Math.Min(sheetCap, MaxSheetFraction(aw.Speed, aw.AngleRad));
+        f = FinSheetCap(aw.Speed, aw.AngleRad, speed, f);
+        var s = Sail(aw.Speed, aw.AngleRad, f);
+        double finDrag = Fin(s.Side, speed, out _, out _);
+        return s.Drive - finDrag - Physics.Hull.At(speed).Resistance;
+    }
+}

@@ -1,0 +1,115 @@
+using System.Globalization;
+using CourseSim.Courses;
+using CourseSim.Equilibrium;
+using CourseSim.Settings;
+using CourseSim.Wind;
+
+namespace CourseSim.Engine;
+
+/// <summary>One board of the fleet as the scenario gives it.</summary>
+public sealed record BoardEntry(string Id, string Name, Equipment Equipment, string Tactic, double LinePosition, int Line);
+
+/// <summary>Race settings: the step, the start sequence, the time limit and what is recorded.</summary>
+public sealed record RaceSettings
+{
+    /// <summary>Fixed steps per second.</summary>
+    public double StepHz { get; init; } = 20;
+    /// <summary>Rate at which each board samples the wind field and shadows, per second (at most the step rate).</summary>
+    public double WindHz { get; init; } = 5;
+    /// <summary>The simulation starts this many seconds before the starting signal.</summary>
+    public double CountdownS { get; init; } = 90;
+    /// <summary>Boards still racing this long after the signal are recorded as not finished, s.</summary>
+    public double TimeLimitS { get; init; } = 3600;
+    /// <summary>Interval between recorded samples of every board, s.</summary>
+    public double RecordIntervalS { get; init; } = 0.5;
+    /// <summary>Interval between a rider's decisions (a human rate), s.</summary>
+    public double DecisionIntervalS { get; init; } = 0.5;
+    /// <summary>Whether riders can fall (overpowered, or a failed gybe).</summary>
+    public bool Falls { get; init; } = true;
+    /// <summary>Whether riders pump below planing (off in polar checks of the engine).</summary>
+    public bool Pumping { get; init; } = true;
+    /// <summary>Clock time of the starting signal (for GPX), UTC.</summary>
+    public DateTime StartTimeUtc { get; init; } = new(2026, 6, 14, 13, 0, 0, DateTimeKind.Utc);
+    public ulong Seed { get; init; } = 1;
+}
+
+/// <summary>Everything a race needs, resolved and validated.</summary>
+public sealed record RaceSetup(string Name, string Description, string VenueName, double LatDeg, double LonDeg,
+    WindSettings Wind, RaceSettings Race, Course Course, IReadOnlyList<BoardEntry> Boards, string SourcePath);
+
+/// <summary>Scenario files (docs/scenario.md): name, venue, wind, race, course and fleet.</summary>
+public static class ScenarioFile
+{
+    /// <summary>Tactics the engine knows; the tactics issue adds more.</summary>
+    public static readonly string[] Tactics = ["vmg-layline"];
+
+    public static readonly SettingsSchema Schema = new("scenario",
+    [
+        KeySpec.Text("name", "", "the scenario's name"),
+        KeySpec.Text("description", "", "what the scenario is for"),
+        KeySpec.Text("venue.name", "", "the venue's name"),
+        KeySpec.Number("venue.lat_deg", -90, 90, 0, "latitude of the course origin (middle of the start line), deg"),
+        KeySpec.Number("venue.lon_deg", -180, 180, 0, "longitude of the course origin, deg"),
+        .. WindFile.Keys,
+        KeySpec.Number("race.step_hz", 5, 100, 20, "fixed steps per second"),
+        KeySpec.Number("race.wind_hz", 1, 100, 5, "rate each board samples the wind field and shadows, per second"),
+        KeySpec.Number("race.countdown_s", 20, 600, 90, "seconds simulated before the starting signal"),
+        KeySpec.Number("race.time_limit_s", 60, 36000, 3600, "time limit after the signal, s"),
+        KeySpec.Number("race.record_interval_s", 0.05, 10, 0.5, "interval between recorded samples, s"),
+        KeySpec.Number("race.decision_interval_s", 0.2, 5, 0.5, "interval between a rider's decisions, s"),
+        KeySpec.Flag("race.falls", true, "riders can fall when overpowered or in a failed gybe"),
+        KeySpec.Flag("race.pumping", true, "riders pump below planing while their reserve lasts"),
+        KeySpec.Text("race.start_time_utc", "2026-06-14T13:00:00Z", "clock time of the starting signal (ISO 8601, UTC), used in GPX"),
+        KeySpec.Number("race.seed", 0, 9007199254740991, 1, "seed used when --seed is not given"),
+        .. CourseBuilder.Keys,
+        KeySpec.Text("boards.*.equipment", "", "equipment file of this board, relative to the scenario file"),
+        KeySpec.Text("boards.*.name", "", "name shown in results (default: the equipment's name)"),
+        KeySpec.Text("boards.*.set", "", "equipment overrides for this board, 'table.key=value' separated by ';'"),
+        KeySpec.Text("boards.*.tactic", "vmg-layline", "the board's tactic", Tactics),
+        KeySpec.Derived("boards.*.line_position", 0, 1, "where on the start line the rider aims: 0 pin (left) end .. 1 right end; default: spread"),
+    ]);
+
+    public static SettingsFile Load(string path, IEnumerable<string>? overrides = null) => SettingsFile.Load(path, Schema, overrides);
+
+    public static RaceSetup LoadRace(string path, IEnumerable<string>? overrides = null, ulong? seed = null)
+        => FromSettings(Load(path, overrides), seed);
+
+    public static RaceSetup FromSettings(SettingsFile f, ulong? seed = null)
+    {
+        var wind = WindFile.From(f);
+        string startText = f.Text("race.start_time_utc");
+        if (!DateTime.TryParse(startText, CultureInfo.InvariantCulture, DateTimeStyles.AdjustToUniversal | DateTimeStyles.AssumeUniversal, out var start))
+            throw f.ErrorAt("race.start_time_utc", $"'{startText}' is not an ISO 8601 time such as 2026-06-14T13:00:00Z");
+        var race = new RaceSettings
+        {
+            StepHz = f.Number("race.step_hz"), WindHz = f.Number("race.wind_hz"), CountdownS = f.Number("race.countdown_s"), TimeLimitS = f.Number("race.time_limit_s"),
+            RecordIntervalS = f.Number("race.record_interval_s"), DecisionIntervalS = f.Number("race.decision_interval_s"),
+            Falls = f.Flag("race.falls"), Pumping = f.Flag("race.pumping"), StartTimeUtc = DateTime.SpecifyKind(start, DateTimeKind.Utc),
+            Seed = seed ?? (ulong)f.Number("race.seed"),
+        };
+        if (race.RecordIntervalS < 1 / race.StepHz) throw f.ErrorAt("race.record_interval_s", $"must be at least one step (1/{race.StepHz} s)");
+        var course = CourseBuilder.Build(f, wind.DirectionDeg);
+        var ids = f.Names("boards");
+        if (ids.Count == 0) throw new SettingsException(f.Path, 0, "boards", "a race needs at least one board: add a [boards.NAME] table with equipment = \"file.toml\"");
+        var boards = new List<BoardEntry>();
+        for (int i = 0; i < ids.Count; i++)
+        {
+            string id = ids[i], key = $"boards.{id}.equipment";
+            string file = f.Text(key);
+            if (file.Length == 0) throw f.ErrorAt(key, $"board '{id}' needs an equipment file (equipment = \"equipment/NAME.toml\")");
+            string full = Path.GetFullPath(Path.Combine(f.Directory, file));
+            var sets = f.Text($"boards.{id}.set").Split(';', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
+            Equipment eq;
+            try { eq = EquipmentFile.Load(full, sets); }
+            catch (SettingsException e) when (e.Origin != full)
+            {
+                throw f.ErrorAt(e.Origin == "--set" ? $"boards.{id}.set" : key, e.Problem + (e.Key is null ? "" : $" (key '{e.Key}')"));
+            }
+            string name = f.Text($"boards.{id}.name") is { Length: > 0 } n ? n : eq.Name;
+            double pos = f.Has($"boards.{id}.line_position") ? f.Number($"boards.{id}.line_position") : (i + 0.5) / ids.Count;
+            boards.Add(new BoardEntry(id, name, eq, f.Text($"boards.{id}.tactic"), pos, f.Raw(key)?.Line ?? 0));
+        }
+        return new RaceSetup(f.Text("name"), f.Text("description"), f.Text("venue.name"), f.Number("venue.lat_deg"), f.Number("venue.lon_deg"),
+            wind, race, course, boards, f.Path);
+    }
+}

@@ -1,0 +1,39 @@
+namespace CourseSim.Engine;
+
+/// <summary>
+/// Rider and manoeuvre constants of the engine (docs/engine.md, "Manoeuvres"), with where each comes from. Skill is the
+/// rider's 0..1 skill from the equipment file; (1 - skill) scales the slow and clumsy parts.
+/// </summary>
+public static class Tuning
+{
+    /// <summary>Steering rate available from raking the rig when the board is slow, deg/s (from memory: a board pivots through 90 deg in 4-5 s when luffing up with the rig).</summary>
+    public const double RigSteerDegPerS = 20;
+    /// <summary>Carving radius of a planing turn at skill 1 and 0, m (from memory: 5-10 m for a carve gybe at speed).</summary>
+    public const double CarveRadiusExpertM = 6, CarveRadiusNoviceM = 12;
+    /// <summary>Largest yaw rate, deg/s.</summary>
+    public const double MaxYawDegPerS = 70;
+    /// <summary>Time the rider takes to step round the mast in a tack at skill 1 and 0, s (from memory: about 1 s for a racer, 3 s for a club rider).</summary>
+    public const double TackCrossExpertS = 1.0, TackCrossNoviceS = 3.0;
+    /// <summary>Apparent angle below which the sail stops driving in a tack and the rider crosses, deg (common practice).</summary>
+    public const double TackCrossStartDeg = 15;
+    /// <summary>Time the sail is flipped and not drawing in a gybe at skill 1 and 0, s (from memory: 0.5-2 s).</summary>
+    public const double GybeFlipExpertS = 0.6, GybeFlipNoviceS = 2.0;
+    /// <summary>Chance a gybe ends in a fall at skill 0, planing and not (from memory; club riders miss many planing gybes).</summary>
+    public const double GybeFailNovicePlaning = 0.45, GybeFailNoviceDisplacement = 0.15;
+    /// <summary>Time in the water and water-starting after a fall at skill 1 and 0, s (from memory: 8-25 s).</summary>
+    public const double WaterStartExpertS = 8, WaterStartNoviceS = 25;
+    /// <summary>Drag area of a rider in the water holding the rig, m2 (model value: stops a board in a few metres).</summary>
+    public const double InWaterDragAreaM2 = 0.6;
+    /// <summary>Rider's reaction time constant for sheeting, s, at skill 1 and 0 (from memory: human reaction 0.2-0.5 s).</summary>
+    public const double SheetLagExpertS = 0.2, SheetLagNoviceS = 0.6;
+    /// <summary>Fall hazard per second per unit of heeling moment beyond the limit, at skill 0 (model value).</summary>
+    public const double OverpowerHazardPerS = 2.0;
+    /// <summary>Time constant of the rider's reading of the wind, s (smooths gusts: from memory, riders judge shifts over a few seconds).</summary>
+    public const double PerceptionLagS = 3.0;
+    /// <summary>Share of W' the rider keeps in hand: pumping stops below it (model value).</summary>
+    public const double ReserveFloor = 0.15;
+    /// <summary>Share of W' a rider who ran down to the floor recovers before pumping again (model value).</summary>
+    public const double RestUntil = 0.6;
+
+    public static double Lerp(double expert, double novice, double skill) => novice + (expert - novice) * Math.Clamp(skill, 0, 1);
+}

@@ -1,0 +1,101 @@
+namespace CourseSim.Entities;
+
+/// <summary>A column of one component type inside an archetype: a plain array of structs, densely packed.</summary>
+internal abstract class Column
+{
+    public abstract void Grow(int capacity);
+    public abstract void Move(int from, int to);
+    public abstract void CopyTo(int row, Column dst, int dstRow);
+    public abstract Type Type { get; }
+}
+
+internal sealed class Column<T> : Column where T : struct
+{
+    public T[] Data = new T[8];
+    public override Type Type => typeof(T);
+    public override void Grow(int capacity) => Array.Resize(ref Data, capacity);
+    public override void Move(int from, int to) => Data[to] = Data[from];
+    public override void CopyTo(int row, Column dst, int dstRow) => ((Column<T>)dst).Data[dstRow] = Data[row];
+}
+
+/// <summary>
+/// All entities that have exactly the same set of components, stored column by column (structure of arrays), so a
+/// system touches only the columns it reads. Rows are kept dense: removing a row moves the last row into the hole.
+/// </summary>
+public sealed class Archetype
+{
+    internal readonly Column[] Columns;
+    readonly int[] _columnOf; // component type id -> column index, -1 if absent
+    internal Entity[] Entities = new Entity[8];
+    public Signature Signature { get; }
+    public int Count { get; internal set; }
+    public int Capacity => Entities.Length;
+
+    internal Archetype(Signature sig, IReadOnlyList<Type> types, Func<Type, Column> makeColumn)
+    {
+        Signature = sig;
+        _columnOf = new int[64];
+        Array.Fill(_columnOf, -1);
+        var cols = new List<Column>();
+        for (int t = 0; t < 64; t++)
+        {
+            if (!sig.Has(t)) continue;
+            _columnOf[t] = cols.Count;
+            cols.Add(makeColumn(types[t]));
+        }
+        Columns = cols.ToArray();
+    }
+
+    internal int ColumnOf(int type) => _columnOf[type];
+
+    internal int AddRow(Entity e)
+    {
+        if (Count == Entities.Length)
+        {
+            int cap = Entities.Length * 2;
+            Array.Resize(ref Entities, cap);
+            foreach (var c in Columns) c.Grow(cap);
+        }
+        Entities[Count] = e;
+        return Count++;
+    }
+
+    /// <summary>Removes a row by moving the last row into it; returns the entity that moved (or Null).</summary>
+    internal Entity RemoveRow(int row)
+    {
+        int last = Count - 1;
+        Entity moved = Entity.Null;
+        if (row != last)
+        {
+            foreach (var c in Columns) c.Move(last, row);
+            Entities[row] = Entities[last];
+            moved = Entities[row];
+        }
+        Entities[last] = Entity.Null;
+        Count--;
+        return moved;
+    }
+
+    internal T[] ColumnArray<T>(int type) where T : struct => ((Column<T>)Columns[_columnOf[type]]).Data;
+}
+
+/// <summary>
+/// One archetype's rows seen by a query: spans over the component columns, in row order. Writing through a span writes
+/// the component in place.
+/// </summary>
+public readonly ref struct Chunk
+{
+    readonly Archetype _a;
+    readonly World _w;
+    internal Chunk(World w, Archetype a) { _w = w; _a = a; }
+    public int Count => _a.Count;
+    public ReadOnlySpan<Entity> Entities => new(_a.Entities, 0, _a.Count);
+    /// <summary>The column of component T; the archetype must have it (queries guarantee their required components).</summary>
+    public Span<T> Span<T>() where T : struct
+    {
+        int t = _w.TypeId<T>();
+        if (_a.ColumnOf(t) < 0) throw new EntityException($"this chunk has no {typeof(T).Name} column");
+        return new Span<T>(_a.ColumnArray<T>(t), 0, _a.Count);
+    }
+    public bool Has<T>() where T : struct => _a.ColumnOf(_w.TypeId<T>()) >= 0;
+}
