@@ -5,6 +5,9 @@ namespace CourseSim.Engine;
 
 public sealed partial class Race
 {
+    /// <summary>Riders pump while slower than this share of their rig's steady speed at the angle sailed (model value).</summary>
+    public const double PumpBelowShare = 0.95;
+
     /// <summary>Signed true wind angle (rad): positive when the wind comes over the starboard side (starboard tack).</summary>
     public static double SignedAngle(double fromDeg, double headingRad) => Unit.WrapRadPi(Unit.DegToRad(fromDeg) - headingRad);
 
@@ -110,18 +113,23 @@ public sealed partial class Race
                 if (noDrive) { drive = Math.Min(drive, 0); side = 0; heel = 0; }
                 double finDrag = rig.Fin(side, v, out double leeway, out _);
                 var hull = rig.Physics.Hull.At(v);
+                // Stepping round the mast puts the rider's weight on the nose: the board drops off the plane.
+                if (man[i].Kind == Manoeuvre.Tack && man[i].Phase == 1)
+                    hull = hull with { Resistance = Math.Max(hull.Resistance, rig.Physics.Hull.UnplanedResistance(v)), LiftFraction = 0 };
                 t.AttackRad = sail.AttackRad; t.HeelUse = heel;
                 // Heel use against the limit with the sheet the rider holds (lagging a gust): above 1 the rider is overpowered.
                 t.Drive = drive; t.Side = side; t.FinDrag = finDrag; t.HullDrag = hull.Resistance;
                 t.Planing = hull.LiftFraction >= 0.5;
                 mo[i].Leeway = leeway;
-                // Pumping: below planing, driving, not manoeuvring, while the reserve is above the floor.
                 var rm = rig.Physics.Rider;
                 // Out of breath at the floor, the rider rests until the reserve is back to RestUntil (hysteresis).
                 if (rider[i].ReserveJ <= Tuning.ReserveFloor * rm.ReserveJ) rider[i].Resting = true;
                 else if (rider[i].ReserveJ >= Tuning.RestUntil * rm.ReserveJ) rider[i].Resting = false;
-                bool pump = Settings.Pumping && !t.Planing && !noDrive && man[i].Kind == Manoeuvre.None && intent[i].Power >= 0.99
-                            && st[i].State != RaceState.PreStart && !rider[i].Resting && aws > 2;
+                // Pumping: a racer pumps while below the speed their rig should make at this angle (to get onto the plane,
+                // or back onto it after a manoeuvre or a lull), driving, not manoeuvring, while the reserve lasts.
+                bool pump = Settings.Pumping && !noDrive && man[i].Kind == Manoeuvre.None && intent[i].Power >= 0.99
+                            && !rider[i].Resting && aws > 2
+                            && v < PumpBelowShare * _rigs[b].Speed(w.TrueSpeed, w.FromRad - track);
                 double power = pump ? rm.PowerFor(Equilibrium.VelocityPrediction.PumpBurstS) : 0;
                 rider[i].PumpPowerW = power;
                 if (power > 0 || rider[i].ReserveJ < rm.ReserveJ) rider[i].ReserveJ = rm.StepReserve(rider[i].ReserveJ, power, Dt);

@@ -21,12 +21,14 @@ public sealed partial class Race
 
     /// <summary>
     /// Pins a board to a true wind angle (deg, positive = starboard tack) at full power, whatever its tactic: the engine's
-    /// own polar check. NaN releases it.
+    /// own polar check. Before the first step the board is placed on that heading; under way it turns (tacking or
+    /// gybing if the angle is on the other side). NaN releases it.
     /// </summary>
     public void HoldTrueWindAngle(int board, double twaDeg)
     {
         if (_holdTwa.Length != BoardCount) { _holdTwa = new double[BoardCount]; Array.Fill(_holdTwa, double.NaN); }
         _holdTwa[board] = twaDeg;
+        if (StepIndex > 0 || double.IsNaN(twaDeg)) return; // under way: the manoeuvre system turns the board
         var e = _entities[board];
         World.Get<Pose>(e).Heading = Unit.WrapRadPi(Unit.DegToRad(Setup.Wind.DirectionDeg - twaDeg));
         World.Get<Intent>(e).Heading = World.Get<Pose>(e).Heading;

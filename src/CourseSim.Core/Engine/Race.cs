@@ -82,11 +82,19 @@ public sealed partial class Race
         _fallRng = new CounterRng(Seed, CounterRng.Streams.Falls);
         _tacticRng = new CounterRng(Seed, CounterRng.Streams.Tactics);
         rigFor ??= RigPolar.For;
+        // Set-ups are resolved in parallel (each is a pure function of its equipment, so the result does not depend on
+        // the thread count); the race itself is single-threaded.
+        var distinct = setup.Boards.Select(b => b.Equipment).Distinct().ToArray();
+        var resolved = new RigPolar[distinct.Length];
+        var build = rigFor;
+        Parallel.For(0, distinct.Length, k => resolved[k] = build(distinct[k]));
+        var byEquipment = new Dictionary<Equilibrium.Equipment, RigPolar>();
+        for (int k = 0; k < distinct.Length; k++) byEquipment[distinct[k]] = resolved[k];
         Time = -setup.Race.CountdownS;
         for (int i = 0; i < n; i++)
         {
             var b = setup.Boards[i];
-            _rigs[i] = rigFor(b.Equipment);
+            _rigs[i] = byEquipment[b.Equipment];
             _skill[i] = b.Equipment.Rider.Skill;
             _sheetGain[i] = Math.Min(1, Dt / Tuning.Lerp(Tuning.SheetLagExpertS, Tuning.SheetLagNoviceS, _skill[i]));
             _splits[i] = new List<double>();

@@ -51,7 +51,7 @@ public sealed class RigPolar
 
     double SteadySpeed(double windAtRig, double twa, double burstPower)
     {
-        const double dv = 0.1, vmax = 40;
+        const double dv = 0.25, vmax = 40;
         double F(double v) => Rig.SteadyNetForce(windAtRig, twa, v);
         double v1 = dv;
         while (v1 < vmax && F(v1) + Rig.Physics.Rider.PumpThrust(burstPower, v1) > 0) v1 += dv;
@@ -61,7 +61,14 @@ public sealed class RigPolar
         for (double lo = hi - dv; lo > 0; lo -= dv)
         {
             double fLo = F(lo);
-            if (fLo > 0) return lo + dv * fLo / (fLo - fHi);
+            if (fLo > 0)
+            {
+                // Bisection inside the bracket to a centimetre per second.
+                double a = lo, b = hi;
+                for (int i = 0; i < 5; i++) { double m = 0.5 * (a + b); if (F(m) > 0) a = m; else b = m; }
+                double fa = F(a), fb = F(b);
+                return fa == fb ? a : a + (b - a) * fa / (fa - fb);
+            }
             hi = lo; fHi = fLo;
         }
         return 0;

@@ -98,6 +98,7 @@ public static class ScenarioFile
             string file = f.Text(key);
             if (file.Length == 0) throw f.ErrorAt(key, $"board '{id}' needs an equipment file (equipment = \"equipment/NAME.toml\")");
             string full = Path.GetFullPath(Path.Combine(f.Directory, file));
+            if (!File.Exists(full)) throw f.ErrorAt(key, $"equipment file '{file}' not found (looked for {full})");
             var sets = f.Text($"boards.{id}.set").Split(';', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
             Equipment eq;
             try { eq = EquipmentFile.Load(full, sets); }
@@ -105,6 +106,7 @@ public static class ScenarioFile
             {
                 throw f.ErrorAt(e.Origin == "--set" ? $"boards.{id}.set" : key, e.Problem + (e.Key is null ? "" : $" (key '{e.Key}')"));
             }
+            if (sets.Length > 0) eq = eq with { Name = eq.Name + " (adjusted)" };
             string name = f.Text($"boards.{id}.name") is { Length: > 0 } n ? n : eq.Name;
             double pos = f.Has($"boards.{id}.line_position") ? f.Number($"boards.{id}.line_position") : (i + 0.5) / ids.Count;
             boards.Add(new BoardEntry(id, name, eq, f.Text($"boards.{id}.tactic"), pos, f.Raw(key)?.Line ?? 0));

@@ -12,8 +12,9 @@ public static class Tuning
     public const double CarveRadiusExpertM = 6, CarveRadiusNoviceM = 12;
     /// <summary>Largest yaw rate, deg/s.</summary>
     public const double MaxYawDegPerS = 70;
-    /// <summary>Time the rider takes to step round the mast in a tack at skill 1 and 0, s (from memory: about 1 s for a racer, 3 s for a club rider).</summary>
-    public const double TackCrossExpertS = 1.0, TackCrossNoviceS = 3.0;
+    /// <summary>Time from the sail going slack to sheeting in on the new tack, while the rider steps round the mast, at skill 1
+    /// and 0, s (from memory: about 1.5 s for a racer on a short board, 4 s for a club rider).</summary>
+    public const double TackCrossExpertS = 1.5, TackCrossNoviceS = 4.0;
     /// <summary>Apparent angle below which the sail stops driving in a tack and the rider crosses, deg (common practice).</summary>
     public const double TackCrossStartDeg = 15;
     /// <summary>Time the sail is flipped and not drawing in a gybe at skill 1 and 0, s (from memory: 0.5-2 s).</summary>

@@ -93,6 +93,18 @@ public sealed class HullModel
         return new HullState(res, phi, p.TrimDeg, Math.Min(p.Lambda * PlaningBeamM, Spec.LengthM));
     }
 
+    /// <summary>
+    /// Resistance (N) at speed V with no dynamic lift: the board held down in displacement trim (the rider's weight
+    /// forward at the mast, as in a tack), skin friction plus the wave-making term.
+    /// </summary>
+    public double UnplanedResistance(double v)
+    {
+        double re = Math.Max(v, 1e-3) * Spec.LengthM / _nu;
+        double friction = 0.5 * _rho * v * v * RestingWettedAreaM2 * Friction.Ittc1957(re) * FormFactor;
+        double fn = VolumeFroude(v);
+        return friction + WaveCoefficient * WeightN * fn * fn * fn * fn;
+    }
+
     /// <summary>Hull state at speed V (m/s), interpolated from the table (clamped to 0..40 m/s).</summary>
     public HullState At(double speed)
     {

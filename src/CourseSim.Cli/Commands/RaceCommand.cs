@@ -1,0 +1,191 @@
+using System.CommandLine;
+using System.Globalization;
+using System.Text;
+using CourseSim.Cli.Output;
+using CourseSim.Engine;
+using CourseSim.Replay;
+using Spectre.Console;
+
+namespace CourseSim.Cli.Commands;
+
+/// <summary>
+/// <c>coursesim race SCENARIO [--seed N] [--set k=v ...] [--out DIR]</c>: runs one race of a scenario's fleet and writes
+/// results.csv, summary.json, replay.msgpack and a GPX track per board into DIR.
+/// </summary>
+public static class RaceCommand
+{
+    public static Command Build(TextWriter stdout, TextWriter stderr)
+    {
+        var file = new Argument<string>("scenario") { Description = "scenario file (TOML) with [wind], [race], [course] and [boards.NAME] tables" };
+        var seed = new Option<ulong?>("--seed") { Description = "random seed (default: race.seed in the scenario)" };
+        var set = new Option<string[]>("--set") { Description = "override a scenario key, table.key=value (repeatable)" };
+        var outDir = new Option<string?>("--out") { Description = "folder for results.csv, summary.json, replay.msgpack and tracks/ (default out/race-NAME)" };
+        var format = new Option<string>("--format") { Description = "table (results table) or json (summary.json to standard output)", DefaultValueFactory = _ => "table" };
+        format.AcceptOnlyFromAmong("table", "json");
+        var cmd = new Command("race", "Race a scenario's fleet round its course in its wind, step by step from the board physics.") { file, seed, set, outDir, format };
+        cmd.SetAction(pr => Run(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(format)!, stdout, stderr));
+        return cmd;
+    }
+
+    static int Run(string path, ulong? seed, string[] sets, string? outDir, string format, TextWriter stdout, TextWriter stderr)
+    {
+        var setup = ScenarioFile.LoadRace(path, sets, seed);
+        string name = setup.Name.Length > 0 ? setup.Name : Path.GetFileNameWithoutExtension(path);
+        string dir = outDir ?? Path.Combine("out", $"race-{PolarCommand.Slug(name)}");
+        var clock = System.Diagnostics.Stopwatch.StartNew();
+        var race = new Race(setup);
+        double setupS = clock.Elapsed.TotalSeconds;
+        var result = RunWithProgress(race, stdout, stderr, format == "json");
+        double runS = clock.Elapsed.TotalSeconds - setupS;
+        var written = Write(dir, race, result);
+        if (format == "json")
+        {
+            stdout.WriteLine(SummaryJson(race, result));
+            return ExitCodes.Ok;
+        }
+        var console = Terminal.For(stdout);
+        console.Write(ResultsTable(race, result, name));
+        int unfinished = result.Boards.Count(b => !b.Finished);
+        long boardSteps = race.StepIndex * race.BoardCount;
+        console.MarkupLine(Markup.Escape($"{result.Boards.Count - unfinished} of {result.Boards.Count} finished; seed {race.Seed}; " +
+            $"{race.StepIndex} steps of {1000 * race.Dt:0} ms; set-up {setupS:0.0} s, race {runS:0.0} s ({boardSteps / Math.Max(runS, 1e-9) / 1e6:0.00} M board-steps/s)"));
+        console.MarkupLine("[grey]" + Markup.Escape($"Wrote {string.Join(", ", written)} in {dir}") + "[/]");
+        console.MarkupLine("[yellow]" + Markup.Escape(Caution.Text) + "[/]");
+        return ExitCodes.Ok;
+    }
+
+    static RaceResult RunWithProgress(Race race, TextWriter stdout, TextWriter stderr, bool quiet)
+    {
+        bool interactive = !quiet && stdout == Console.Out && !Console.IsOutputRedirected && !Console.IsErrorRedirected;
+        if (interactive)
+        {
+            RaceResult? res = null;
+            AnsiConsole.Progress().AutoClear(true).Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new RemainingTimeColumn())
+                .Start(ctx =>
+                {
+                    var task = ctx.AddTask($"racing {race.BoardCount} boards", maxValue: 1000);
+                    res = race.Run(p => task.Value = 1000 * p);
+                    task.Value = 1000;
+                });
+            return res!;
+        }
+        // Redirected output: a plain line every 10 % on the error stream (the progress bar would print nothing).
+        int shown = -1;
+        return race.Run(p =>
+        {
+            int tenth = (int)(p * 10);
+            if (tenth > shown && !quiet)
+            {
+                shown = tenth;
+                stderr.WriteLine($"race: {tenth * 10,3}% (race time {race.Time:0} s)");
+            }
+        });
+    }
+
+    static Table ResultsTable(Race race, RaceResult result, string name)
+    {
+        var t = new Table().Border(TableBorder.Simple)
+            .Title($"[bold]{Markup.Escape(name)}[/]: {Markup.Escape(race.Course.Kind)}, {race.BoardCount} boards, seed {race.Seed}");
+        t.AddColumn(new TableColumn("place").RightAligned()); t.AddColumn("board"); t.AddColumn(new TableColumn("elapsed").RightAligned());
+        t.AddColumn(new TableColumn("gap").RightAligned()); t.AddColumn("legs"); t.AddColumn(new TableColumn("sailed km").RightAligned());
+        t.AddColumn(new TableColumn("avg kn").RightAligned()); t.AddColumn(new TableColumn("tacks").RightAligned());
+        t.AddColumn(new TableColumn("gybes").RightAligned()); t.AddColumn(new TableColumn("falls").RightAligned()); t.AddColumn("notes");
+        foreach (var b in result.ByPlace)
+        {
+            var notes = new List<string>();
+            if (!b.Finished) notes.Add("did not finish");
+            if (b.Ocs) notes.Add("early start, returned");
+            if (b.WrongSide > 0) notes.Add($"wrong side x{b.WrongSide}");
+            t.AddRow(b.Place?.ToString(CultureInfo.InvariantCulture) ?? "-", Markup.Escape(b.Name), b.ElapsedS is double e ? Clock(e) : "-",
+                b.GapS is double g ? "+" + Clock(g) : "-", Legs(b.SplitsS), F(b.DistanceM / 1000, "0.00"), F(b.AverageSpeedMs / 0.514444, "0.0"),
+                b.Tacks.ToString(CultureInfo.InvariantCulture), b.Gybes.ToString(CultureInfo.InvariantCulture), b.Falls.ToString(CultureInfo.InvariantCulture),
+                Markup.Escape(string.Join("; ", notes)));
+        }
+        return t;
+    }
+
+    /// <summary>Leg times from the split times (the first leg from the signal).</summary>
+    static string Legs(IReadOnlyList<double> splits)
+    {
+        var parts = new List<string>();
+        double prev = 0;
+        foreach (var s in splits) { parts.Add(Clock(s - prev)); prev = s; }
+        return string.Join(" ", parts);
+    }
+
+    static string Clock(double s) => s >= 3600 ? TimeSpan.FromSeconds(s).ToString(@"h\:mm\:ss", CultureInfo.InvariantCulture)
+        : $"{(int)(s / 60)}:{(s % 60).ToString("00.0", CultureInfo.InvariantCulture)}";
+
+    static string F(double v, string fmt) => v.ToString(fmt, CultureInfo.InvariantCulture);
+
+    static List<string> Write(string dir, Race race, RaceResult result)
+    {
+        Directory.CreateDirectory(dir);
+        var tracks = Path.Combine(dir, "tracks");
+        Directory.CreateDirectory(tracks);
+        AtomicFile.WriteAllText(Path.Combine(dir, "results.csv"), ResultsCsv(race, result));
+        AtomicFile.WriteAllText(Path.Combine(dir, "summary.json"), SummaryJson(race, result) + "\n");
+        AtomicFile.WriteAllBytes(Path.Combine(dir, "replay.msgpack"), ReplayFile.Write(race, result));
+        for (int b = 0; b < race.BoardCount; b++)
+            AtomicFile.WriteAllText(Path.Combine(tracks, $"{b + 1:00}-{PolarCommand.Slug(race.Setup.Boards[b].Name)}.gpx"), Gpx.Track(race, b));
+        return ["results.csv", "summary.json", "replay.msgpack", $"tracks/ ({race.BoardCount} GPX files)"];
+    }
+
+    static string ResultsCsv(Race race, RaceResult result)
+    {
+        int legs = race.Course.Steps.Count;
+        var sb = new StringBuilder();
+        sb.Append("place,board,name,equipment,finished,elapsed_s,gap_s,distance_m,avg_speed_kn,tacks,gybes,falls,ocs,wrong_side");
+        for (int i = 1; i <= legs; i++) sb.Append(CultureInfo.InvariantCulture, $",leg_{i}_s");
+        sb.Append('\n');
+        foreach (var b in result.ByPlace)
+        {
+            sb.Append(b.Place?.ToString(CultureInfo.InvariantCulture) ?? "").Append(',').Append(b.Board + 1).Append(',')
+              .Append(Csv(b.Name)).Append(',').Append(Csv(b.Equipment)).Append(',').Append(b.Finished ? "true" : "false").Append(',')
+              .Append(N(b.ElapsedS)).Append(',').Append(N(b.GapS)).Append(',').Append(N(b.DistanceM)).Append(',').Append(N(b.AverageSpeedMs / 0.514444))
+              .Append(',').Append(b.Tacks).Append(',').Append(b.Gybes).Append(',').Append(b.Falls).Append(',').Append(b.Ocs ? "true" : "false")
+              .Append(',').Append(b.WrongSide);
+            double prev = 0;
+            for (int i = 0; i < legs; i++)
+            {
+                sb.Append(',');
+                if (i < b.SplitsS.Count) { sb.Append(N(b.SplitsS[i] - prev)); prev = b.SplitsS[i]; }
+            }
+            sb.Append('\n');
+        }
+        return sb.ToString();
+    }
+
+    static string N(double? v) => v is double d ? Math.Round(d, 3).ToString("0.###", CultureInfo.InvariantCulture) : "";
+
+    static string Csv(string s) => s.IndexOfAny([',', '"', '\n', '\r']) >= 0 ? "\"" + s.Replace("\"", "\"\"") + "\"" : s;
+
+    static string SummaryJson(Race race, RaceResult result) => Json.Serialize(new
+    {
+        seed = race.Seed,
+        scenario = race.Setup.Name,
+        engine = Race.EngineVersion,
+        course = race.Course.Kind,
+        duration_s = result.DurationS,
+        boards = result.ByPlace.Select(b => new
+        {
+            name = b.Name, place = b.Place, elapsed_s = b.ElapsedS, finished = b.Finished, distance_m = b.DistanceM, tacks = b.Tacks, gybes = b.Gybes,
+            falls = b.Falls, gap_s = b.GapS, equipment = b.Equipment, ocs = b.Ocs, wrong_side = b.WrongSide, splits_s = b.SplitsS,
+            average_speed_kn = b.AverageSpeedMs / 0.514444,
+        }),
+        caution = Caution.Text,
+    });
+}
+
+/// <summary>Writes a file through a temporary file in the same folder and a rename, so a crash never leaves half a file.</summary>
+public static class AtomicFile
+{
+    public static void WriteAllBytes(string path, byte[] bytes)
+    {
+        string tmp = path + ".tmp";
+        File.WriteAllBytes(tmp, bytes);
+        File.Move(tmp, path, true);
+    }
+
+    public static void WriteAllText(string path, string text) => WriteAllBytes(path, new UTF8Encoding(false).GetBytes(text));
+}

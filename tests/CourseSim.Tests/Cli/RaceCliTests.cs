@@ -1,0 +1,67 @@
+using System.Text.Json;
+using CourseSim.Tests.Settings;
+
+namespace CourseSim.Tests.Cli;
+
+public class RaceCliTests
+{
+    static (int code, string stdout, string stderr) Run(params string[] args)
+    {
+        var o = new StringWriter(); var e = new StringWriter();
+        int code = CourseSim.Cli.Program.Run(args, o, e);
+        return (code, o.ToString(), e.ToString());
+    }
+
+    static string Demo => Path.Combine(RepoRoot.Path, "scenarios", "korrin-bay-race.toml");
+    static string TempDir() => Directory.CreateTempSubdirectory("cs-race-").FullName;
+
+    [Fact]
+    public void RaceWritesTheDocumentedFilesAndFields()
+    {
+        string dir = TempDir();
+        var (code, stdout, stderr) = Run("race", Demo, "--seed", "11", "--set", "race.time_limit_s=900", "--out", dir);
+        Assert.True(code == 0, stderr);
+        Assert.Contains("place", stdout);
+        Assert.Contains("Maren Holt", stdout);
+        Assert.Contains("Caution", stdout);
+        Assert.Contains("race: 100%", stderr); // plain progress when output is redirected
+        foreach (var f in new[] { "results.csv", "summary.json", "replay.msgpack" }) Assert.True(File.Exists(Path.Combine(dir, f)), f);
+        Assert.Equal(12, Directory.GetFiles(Path.Combine(dir, "tracks"), "*.gpx").Length);
+        using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(dir, "summary.json")));
+        Assert.Equal(11UL, doc.RootElement.GetProperty("seed").GetUInt64());
+        var boards = doc.RootElement.GetProperty("boards");
+        Assert.Equal(12, boards.GetArrayLength());
+        foreach (var name in new[] { "name", "place", "elapsed_s", "finished", "distance_m", "tacks", "gybes" })
+            Assert.True(boards[0].TryGetProperty(name, out _), name);
+        var csv = File.ReadAllLines(Path.Combine(dir, "results.csv"));
+        Assert.Equal(13, csv.Length);
+        Assert.StartsWith("place,board,name,equipment,finished,elapsed_s", csv[0]);
+    }
+
+    [Fact]
+    public void TwoRunsWithTheSameSeedWriteIdenticalFiles()
+    {
+        string a = TempDir(), b = TempDir();
+        Assert.Equal(0, Run("race", Demo, "--set", "race.time_limit_s=300", "--out", a).code);
+        Assert.Equal(0, Run("race", Demo, "--set", "race.time_limit_s=300", "--out", b).code);
+        foreach (var f in new[] { "results.csv", "summary.json", "replay.msgpack" })
+            Assert.Equal(File.ReadAllBytes(Path.Combine(a, f)), File.ReadAllBytes(Path.Combine(b, f)));
+    }
+
+    [Fact]
+    public void BadScenarioInputExitsWithCodeTwoNamingFileLineAndKey()
+    {
+        string dir = TempDir();
+        string bad = Path.Combine(dir, "bad.toml");
+        File.WriteAllText(bad, File.ReadAllText(Demo).Replace("beat_m = 900", "beat_m = 90000"));
+        var (code, _, stderr) = Run("race", bad, "--out", dir);
+        Assert.Equal(2, code);
+        Assert.Contains("bad.toml:", stderr);
+        Assert.Contains("course.beat_m", stderr);
+        Assert.Contains("100 to 5000", stderr);
+        var (code2, _, stderr2) = Run("race", Demo, "--set", "course.kind=figure-eight", "--out", dir);
+        Assert.Equal(2, code2);
+        Assert.Contains("windward-leeward", stderr2);
+        Assert.Equal(2, Run("race", Path.Combine(dir, "missing.toml")).code);
+    }
+}
