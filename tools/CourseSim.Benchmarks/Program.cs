@@ -8,11 +8,16 @@ namespace CourseSim.Benchmarks;
 
 /// <summary>
 /// Benchmarks. Run all: dotnet run -c Release --project tools/CourseSim.Benchmarks -- --filter '*'
+/// Quick plain figures for the engine: dotnet run -c Release --project tools/CourseSim.Benchmarks -- report
 /// Figures are printed, never asserted in tests (see DEVELOPERS.md).
 /// </summary>
 public static class Program
 {
-    public static void Main(string[] args) => BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+    public static void Main(string[] args)
+    {
+        if (args.Length == 1 && args[0] == "report") { Report.Run(); return; }
+        BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+    }
 }
 
 /// <summary>Cost of one equilibrium point, of the rider's trim, and of a whole 15 x 31 polar, on one core.</summary>

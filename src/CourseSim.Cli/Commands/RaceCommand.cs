@@ -113,8 +113,13 @@ public static class RaceCommand
         return string.Join(" ", parts);
     }
 
-    static string Clock(double s) => s >= 3600 ? TimeSpan.FromSeconds(s).ToString(@"h\:mm\:ss", CultureInfo.InvariantCulture)
-        : $"{(int)(s / 60)}:{(s % 60).ToString("00.0", CultureInfo.InvariantCulture)}";
+    static string Clock(double s)
+    {
+        double tenths = Math.Round(s * 10);
+        long whole = (long)(tenths / 10);
+        int frac = (int)(tenths - whole * 10);
+        return whole >= 3600 ? $"{whole / 3600}:{whole / 60 % 60:00}:{whole % 60:00}.{frac}" : $"{whole / 60}:{whole % 60:00}.{frac}";
+    }
 
     static string F(double v, string fmt) => v.ToString(fmt, CultureInfo.InvariantCulture);
 

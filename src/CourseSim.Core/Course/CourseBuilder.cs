@@ -21,7 +21,7 @@ public static class CourseBuilder
         KeySpec.Number("course.reach_m", 50, 3000, 450, "trapezoid: length of the first reach, m"),
         KeySpec.Number("course.reach_angle_deg", 60, 150, 120, "trapezoid: true wind angle of the first reach, deg"),
         KeySpec.Number("course.run_m", 100, 5000, 700, "trapezoid: length of the run from mark 2 to mark 3, m"),
-        KeySpec.Number("course.start_line_m", 20, 2000, 250, "length of the start line, m"),
+        KeySpec.Number("course.start_line_m", 20, 10000, 250, "length of the start line, m"),
         KeySpec.Number("course.gate_m", 20, 500, 60, "width of a leeward gate and of the finish line, m"),
         KeySpec.Number("course.slalom_marks", 2, 12, 5, "downwind slalom: number of gybe marks"),
         KeySpec.Number("course.slalom_leg_m", 50, 2000, 250, "downwind slalom: length of each leg, m"),

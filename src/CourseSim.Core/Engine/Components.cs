@@ -9,8 +9,11 @@ public struct BoardId { public int Value; }
 /// <summary>Position (m, x east, y north) and heading (rad, clockwise from north).</summary>
 public struct Pose { public double X, Y, Heading; }
 
-/// <summary>Motion through the water: speed along the track (m/s), leeway (rad, to leeward), yaw rate (rad/s), distance sailed (m).</summary>
-public struct Motion { public double Speed, Leeway, YawRate, Distance; }
+/// <summary>
+/// Motion through the water: speed along the track (m/s), leeway (rad, to leeward), yaw rate (rad/s), distance sailed (m),
+/// and the sine and cosine of the track direction (kept by the integrator, read by the force system).
+/// </summary>
+public struct Motion { public double Speed, Leeway, YawRate, Distance, TrackSin, TrackCos; }
 
 /// <summary>Which resolved set-up (rig tables and polar) this board sails.</summary>
 public struct RigRef { public int Index; }
@@ -46,6 +49,8 @@ public enum Manoeuvre : byte { None, Tack, Gybe, Fallen }
 public struct Intent
 {
     public double Heading, Power;
+    /// <summary>The rig's steady speed (m/s) on that heading in the wind as perceived: the rider's target.</summary>
+    public double TargetSpeed;
     public double NextDecisionS;
 }
 

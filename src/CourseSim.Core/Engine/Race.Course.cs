@@ -6,9 +6,11 @@ namespace CourseSim.Engine;
 public sealed partial class Race
 {
     /// <summary>How far back from the line a rider waits for the start, m (common practice: a few lengths below the line).</summary>
-    public const double WaitBackM = 40;
+    public const double WaitBackM = 15;
     /// <summary>Extra time riders allow to accelerate to speed on the way to the line, s (model value).</summary>
-    public const double AccelerationAllowanceS = 4;
+    public const double AccelerationAllowanceS = 2;
+    /// <summary>How long after the signal riders aim to reach the line, on average, s (model value).</summary>
+    public const double StartMarginMeanS = 1.5;
 
     Vec2[] _prev = [];
 
@@ -29,10 +31,12 @@ public sealed partial class Race
             _wait[b] = spot - WaitBackM * dir;
             var rng = _tacticRng.For((ulong)b);
             var start = _wait[b] - (30 + 30 * rng.Uniform(0)) * dir;
-            // Riders judge time to the line; the less skilled misjudge it more (from memory: club starts spread over ~5 s).
-            _goMargin[b] = 1.0 + rng.Normal(1) * (0.5 + 2.5 * (1 - _skill[b]));
+            // Riders aim to reach the line a little after the signal and misjudge it, the less skilled more (from memory:
+            // good starters are within about a second of the signal, club riders spread over several seconds).
+            _goMargin[b] = StartMarginMeanS + rng.Normal(1) * (0.3 + 1.5 * (1 - _skill[b]));
             var e = _entities[b];
             World.Get<Pose>(e) = new Pose { X = start.X, Y = start.Y, Heading = h };
+            World.Get<Motion>(e) = new Motion { TrackSin = Math.Sin(h), TrackCos = Math.Cos(h) };
             World.Get<Intent>(e).Heading = h;
             _prev[b] = start;
         }

@@ -26,7 +26,6 @@ public sealed partial class Race
                 ref var m = ref man[i];
                 double skill = _skill[b];
                 double twa = SignedAngle(sw[i].TrueFromDeg, pose[i].Heading);
-                var rng = _fallRng.For((ulong)b);
                 double track = pose[i].Heading - Math.Sign(twa) * mo[i].Leeway;
                 switch (m.Kind)
                 {
@@ -37,7 +36,7 @@ public sealed partial class Race
                         if (Settings.Falls && over > 0.02 && Time > -Settings.CountdownS + 5)
                         {
                             double hazard = Tuning.OverpowerHazardPerS * over * (1 - 0.8 * skill);
-                            if (rng.Uniform((ulong)StepIndex * 2) < hazard * Dt) { Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "overpowered in a gust"); break; }
+                            if (_fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2) < hazard * Dt) { Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "overpowered in a gust"); break; }
                         }
                         double wantTwa = SignedAngle(sw[i].TrueFromDeg, intent[i].Heading);
                         if (Math.Sign(wantTwa) != Math.Sign(twa) && twa != 0 && wantTwa != 0)
@@ -70,7 +69,7 @@ public sealed partial class Race
                             AddEvent(b, RaceEventKind.Gybe, pose[i]);
                             double fail = trim[i].Planing ? Tuning.GybeFailNovicePlaning : Tuning.GybeFailNoviceDisplacement;
                             fail *= (1 - skill) * (1 - skill);
-                            if (Settings.Falls && rng.Uniform((ulong)StepIndex * 2 + 1) < fail) { Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "failed gybe"); break; }
+                            if (Settings.Falls && _fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2 + 1) < fail) { Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "failed gybe"); break; }
                         }
                         else if (m.Phase == 1 && m.Timer >= Tuning.Lerp(Tuning.GybeFlipExpertS, Tuning.GybeFlipNoviceS, skill)) { m.Phase = 2; m.Timer = 0; }
                         else if (m.Phase == 2 && Math.Abs(Unit.WrapRadPi(m.ExitHeading - track)) < Unit.DegToRad(3)) { m.Kind = Manoeuvre.None; m.Phase = 0; }
@@ -84,6 +83,8 @@ public sealed partial class Race
                             m.Kind = Manoeuvre.None; m.Phase = 0;
                             double side = twa >= 0 ? 1 : -1;
                             pose[i].Heading = Unit.WrapRadPi(Unit.DegToRad(sw[i].TrueFromDeg) - side * Math.PI / 2);
+                            double tr = pose[i].Heading - side * mo[i].Leeway;
+                            mo[i].TrackSin = Math.Sin(tr); mo[i].TrackCos = Math.Cos(tr);
                             trim[i].Sheet = 0;
                         }
                         break;

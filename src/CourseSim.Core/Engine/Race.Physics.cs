@@ -22,7 +22,8 @@ public sealed partial class Race
     void SenseWind()
     {
         int every = _senseEvery;
-        int phase = (int)(StepIndex % every);
+        int phase = _sensePhase;
+        _sensePhase = phase + 1 == every ? 0 : phase + 1;
         if (phase == 0)
         {
             foreach (var chunk in _all)
@@ -48,13 +49,13 @@ public sealed partial class Race
             for (int i = 0; i < chunk.Count; i++)
             {
                 int b = ids[i].Value;
-                if (!first && (b + phase) % every != 0) continue;
+                if (!first && _senseSlot[b] != phase) continue;
                 var w = Wind.Sample(pose[i].X, pose[i].Y, Time);
                 w = Shadow.Apply(w, pose[i].X, pose[i].Y, b);
                 ref var s = ref sw[i];
                 s.TrueSpeed = w.SpeedMs; s.TrueFromDeg = w.FromDeg;
                 s.FromRad = Unit.DegToRad(w.FromDeg); s.FromSin = Math.Sin(s.FromRad); s.FromCos = Math.Cos(s.FromRad);
-                s.RigSpeed = w.SpeedMs * _rigs[b].Rig.GradientFactor(w.SpeedMs);
+                s.RigSpeed = w.SpeedMs * _rig[b].GradientFactor(w.SpeedMs);
                 if (first) { s.PerceivedSpeed = w.SpeedMs; s.PerceivedFromDeg = w.FromDeg; }
                 else
                 {
@@ -82,13 +83,14 @@ public sealed partial class Race
             for (int i = 0; i < chunk.Count; i++)
             {
                 int b = ids[i].Value;
-                var rig = _rigs[b].Rig;
+                var rig = _rig[b];
                 ref var t = ref trim[i];
                 double v = mo[i].Speed;
+                // The track (heading less leeway) and its sine and cosine, as the integrator left them.
                 double track = pose[i].Heading - Math.Sign(t.TrueAngleRad) * mo[i].Leeway;
                 // Apparent wind from the true wind at the rig and the board's velocity along its track.
                 ref readonly var w = ref sw[i];
-                double st0 = Math.Sin(track), ct0 = Math.Cos(track);
+                double st0 = mo[i].TrackSin, ct0 = mo[i].TrackCos;
                 double ax = -w.RigSpeed * w.FromSin - v * st0, ay = -w.RigSpeed * w.FromCos - v * ct0;
                 double aws = Math.Sqrt(ax * ax + ay * ay);
                 double appFrom = Math.Atan2(-ax, -ay);
@@ -100,9 +102,8 @@ public sealed partial class Race
                 // Sheet: what the tactic wants, capped by the heel limit, followed with the rider's reaction lag (so a
                 // gust briefly loads the rider past the limit); no drive while crossing, flipping or swimming.
                 bool noDrive = man[i].Kind == Manoeuvre.Fallen || (man[i].Kind == Manoeuvre.Tack && man[i].Phase == 1) || (man[i].Kind == Manoeuvre.Gybe && man[i].Phase == 1);
-                double want = noDrive ? 0 : Math.Min(intent[i].Power, rig.MaxSheetFraction(aws, absBeta));
-                t.Sheet = noDrive ? 0 : t.Sheet + _sheetGain[b] * (want - t.Sheet);
-                var sail = rig.Sail(aws, absBeta, t.Sheet);
+                if (noDrive) t.Sheet = 0;
+                var sail = rig.Trim(aws, absBeta, noDrive ? 0 : intent[i].Power, ref t.Sheet, noDrive ? 1 : _sheetGain[b]);
                 if (v >= Equilibrium.BoardPhysics.SpinOutMinSpeed && Math.Abs(sail.Side) > rig.FinCapacity(v))
                 {
                     // The fin would ventilate: the rider eases at once (a reflex) until it grips.
@@ -112,24 +113,24 @@ public sealed partial class Race
                 double drive = sail.Drive, side = sail.Side, heel = sail.HeelUse;
                 if (noDrive) { drive = Math.Min(drive, 0); side = 0; heel = 0; }
                 double finDrag = rig.Fin(side, v, out double leeway, out _);
-                var hull = rig.Physics.Hull.At(v);
+                var hullModel = rig.Hull;
+                double hullDrag = hullModel.ResistanceAt(v, out double lift);
                 // Stepping round the mast puts the rider's weight on the nose: the board drops off the plane.
-                if (man[i].Kind == Manoeuvre.Tack && man[i].Phase == 1)
-                    hull = hull with { Resistance = Math.Max(hull.Resistance, rig.Physics.Hull.UnplanedResistance(v)), LiftFraction = 0 };
+                if (man[i].Kind == Manoeuvre.Tack && man[i].Phase == 1) { hullDrag = Math.Max(hullDrag, hullModel.UnplanedResistance(v)); lift = 0; }
                 t.AttackRad = sail.AttackRad; t.HeelUse = heel;
                 // Heel use against the limit with the sheet the rider holds (lagging a gust): above 1 the rider is overpowered.
-                t.Drive = drive; t.Side = side; t.FinDrag = finDrag; t.HullDrag = hull.Resistance;
-                t.Planing = hull.LiftFraction >= 0.5;
+                t.Drive = drive; t.Side = side; t.FinDrag = finDrag; t.HullDrag = hullDrag;
+                t.Planing = lift >= 0.5;
                 mo[i].Leeway = leeway;
-                var rm = rig.Physics.Rider;
+                var rm = rig.Rider;
                 // Out of breath at the floor, the rider rests until the reserve is back to RestUntil (hysteresis).
                 if (rider[i].ReserveJ <= Tuning.ReserveFloor * rm.ReserveJ) rider[i].Resting = true;
                 else if (rider[i].ReserveJ >= Tuning.RestUntil * rm.ReserveJ) rider[i].Resting = false;
                 // Pumping: a racer pumps while below the speed their rig should make at this angle (to get onto the plane,
                 // or back onto it after a manoeuvre or a lull), driving, not manoeuvring, while the reserve lasts.
-                bool pump = Settings.Pumping && !noDrive && man[i].Kind == Manoeuvre.None && intent[i].Power >= 0.99
+                bool pump = _pumping && !noDrive && man[i].Kind == Manoeuvre.None && intent[i].Power >= 0.99
                             && !rider[i].Resting && aws > 2
-                            && v < PumpBelowShare * _rigs[b].Speed(w.TrueSpeed, w.FromRad - track);
+                            && v < PumpBelowShare * intent[i].TargetSpeed;
                 double power = pump ? rm.PowerFor(Equilibrium.VelocityPrediction.PumpBurstS) : 0;
                 rider[i].PumpPowerW = power;
                 if (power > 0 || rider[i].ReserveJ < rm.ReserveJ) rider[i].ReserveJ = rm.StepReserve(rider[i].ReserveJ, power, Dt);
@@ -153,7 +154,7 @@ public sealed partial class Race
             for (int i = 0; i < chunk.Count; i++)
             {
                 int b = ids[i].Value;
-                var rig = _rigs[b].Rig;
+                var rig = _rig[b];
                 ref var m = ref mo[i]; ref var p = ref pose[i]; ref var t = ref trim[i];
                 double v = m.Speed;
                 double water = man[i].Kind == Manoeuvre.Fallen ? 0.5 * 1025 * v * v * Tuning.InWaterDragAreaM2 : 0;
@@ -172,8 +173,9 @@ public sealed partial class Race
                 m.YawRate = turn / Dt;
                 p.Heading = Unit.WrapRadPi(p.Heading + turn);
                 double track = p.Heading - side * m.Leeway;
-                p.X += v * Dt * Math.Sin(track);
-                p.Y += v * Dt * Math.Cos(track);
+                m.TrackSin = Math.Sin(track); m.TrackCos = Math.Cos(track);
+                p.X += v * Dt * m.TrackSin;
+                p.Y += v * Dt * m.TrackCos;
                 if (Time >= 0) m.Distance += v * Dt;
             }
         }
@@ -181,13 +183,11 @@ public sealed partial class Race
 
     double YawRate(int board, double speed, in ManoeuvreState man)
     {
-        double skill = _skill[board];
-        double rig = Unit.DegToRad(Tuning.RigSteerDegPerS);
-        if (man.Kind == Manoeuvre.Tack && man.Phase == 1)
-            return Unit.DegToRad(2 * Tuning.TackCrossStartDeg) / Tuning.Lerp(Tuning.TackCrossExpertS, Tuning.TackCrossNoviceS, skill);
-        double carve = speed / Tuning.Lerp(Tuning.CarveRadiusExpertM, Tuning.CarveRadiusNoviceM, skill);
-        return Math.Min(Unit.DegToRad(Tuning.MaxYawDegPerS), Math.Max(rig, carve));
+        if (man.Kind == Manoeuvre.Tack && man.Phase == 1) return _crossYaw[board];
+        return Math.Min(MaxYawRad, Math.Max(RigYawRad, speed * _invCarveRadius[board]));
     }
+
+    static readonly double RigYawRad = Unit.DegToRad(Tuning.RigSteerDegPerS), MaxYawRad = Unit.DegToRad(Tuning.MaxYawDegPerS);
 
     static double WantedHeading(in ManoeuvreState man, double heading) => man.Phase >= 2 ? man.ExitHeading : heading;
 }

@@ -13,6 +13,8 @@ public sealed partial class Race
     public const double LaylineMarginDeg = 2;
     /// <summary>Within this distance of the aim point a running rider steers straight at it, m (model value).</summary>
     public const double CloseRunM = 40;
+    /// <summary>Time a luffing board takes to coast to a stop, s, for the start approach (model value).</summary>
+    public const double CoastS = 2;
 
     double[] _lastTurn = [];
     bool[] _holding = [], _going = [];
@@ -30,8 +32,11 @@ public sealed partial class Race
         _holdTwa[board] = twaDeg;
         if (StepIndex > 0 || double.IsNaN(twaDeg)) return; // under way: the manoeuvre system turns the board
         var e = _entities[board];
-        World.Get<Pose>(e).Heading = Unit.WrapRadPi(Unit.DegToRad(Setup.Wind.DirectionDeg - twaDeg));
-        World.Get<Intent>(e).Heading = World.Get<Pose>(e).Heading;
+        double h = Unit.WrapRadPi(Unit.DegToRad(Setup.Wind.DirectionDeg - twaDeg));
+        World.Get<Pose>(e).Heading = h;
+        World.Get<Intent>(e).Heading = h;
+        ref var m = ref World.Get<Motion>(e);
+        m.TrackSin = Math.Sin(h); m.TrackCos = Math.Cos(h);
     }
 
     /// <summary>
@@ -64,26 +69,33 @@ public sealed partial class Race
                 {
                     // Pinned to a true wind angle (polar checks): steer by the true wind at the rig, full power.
                     it.Heading = Unit.WrapRadPi(Unit.DegToRad(sw[i].TrueFromDeg - _holdTwa[b])); it.Power = 1;
+                    it.TargetSpeed = _rigs[b].Speed(sw[i].TrueSpeed, Unit.DegToRad(_holdTwa[b]));
                     continue;
                 }
                 switch (st[i].State)
                 {
                     case RaceState.PreStart when Time < 0:
                     {
-                        // Time on distance: hold below the line, then go so as to reach the spot at the planned time
-                        // (the signal plus this rider's margin); ease off when early, luff when at the line too soon.
+                        // Time on distance: hold below the line, then go so as to reach it at the planned time (the
+                        // signal plus this rider's margin); on the way, ease off whenever the line would come too soon.
                         double h = LegHeading(b, p, _spot[b], tws, from, tack, true);
-                        double vPolar = Math.Max(1.0, _rigs[b].Speed(tws, SignedAngle(from, h)));
-                        double dist = (_spot[b] - p).Length;
+                        var line = Course.Start;
                         double remaining = _goMargin[b] - Time;
-                        double eta = dist / vPolar + (_speedOf(b) < 0.7 * vPolar ? AccelerationAllowanceS : 0);
+                        double toLine = Math.Max(0, -line.Ahead(p));
+                        var dirH = Vec2.FromBearing(Unit.RadToDeg(h));
+                        double closing = Math.Max(0.3, Vec2.Dot(dirH, line.Normal));
+                        double vPolar = Math.Max(1.0, _rigs[b].Speed(tws, SignedAngle(from, h)));
+                        double v = _speedOf(b);
+                        double etaFull = toLine / (vPolar * closing) + (v < 0.7 * vPolar ? AccelerationAllowanceS : 0);
                         if (!_holding[b] && (_wait[b] - p).Length < 8) _holding[b] = true;
-                        if (remaining <= eta || _going[b])
+                        if (remaining <= etaFull || _going[b])
                         {
-                            // Going: sail the first leg from here on the tack the board is on; luff if at the line too soon.
                             _going[b] = true; _holding[b] = true;
                             heading = LegHeading(b, p, AimPoint(0, p), tws, from, tack, false);
-                            power = Course.Start.Ahead(p) > -3 && Time < -1 ? 0 : 1;
+                            // Early: luff to kill speed (a board coasts about 2 s of its speed before it stops).
+                            double etaNow = toLine / Math.Max(0.3, v * closing);
+                            bool early = etaNow < remaining - 0.3 || toLine < CoastS * v * closing && remaining > CoastS;
+                            power = early ? 0 : 1;
                         }
                         else if (!_holding[b]) { heading = LegHeading(b, p, _wait[b], tws, from, tack, true); power = 0.6; }
                         else { heading = pose[i].Heading; power = 0; }
@@ -101,6 +113,7 @@ public sealed partial class Race
                 }
                 if (Math.Sign(SignedAngle(from, heading)) != tack) _lastTurn[b] = Time;
                 it.Heading = heading; it.Power = power;
+                it.TargetSpeed = _rigs[b].Speed(tws, SignedAngle(from, heading));
             }
         }
     }

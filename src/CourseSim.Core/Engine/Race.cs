@@ -49,7 +49,7 @@ public sealed partial class Race
 
     readonly Entity[] _entities;
     readonly RigPolar[] _rigs;
-    readonly double[] _skill, _sheetGain;
+    readonly double[] _skill, _sheetGain, _crossYaw, _invCarveRadius;
     readonly List<double>[] _splits;
     readonly Vec2[] _spot, _wait;
     readonly double[] _goMargin;
@@ -60,6 +60,10 @@ public sealed partial class Race
     readonly CounterRng _fallRng, _tacticRng;
     int _finished;
     readonly int _senseEvery;
+    int _sensePhase;
+    readonly int[] _senseSlot;
+    readonly RigDynamics[] _rig;
+    readonly bool _pumping;
     double _nextRecord;
 
     /// <summary>
@@ -75,7 +79,10 @@ public sealed partial class Race
         int n = setup.Boards.Count;
         _entities = new Entity[n];
         _rigs = new RigPolar[n];
-        _skill = new double[n]; _sheetGain = new double[n];
+        _rig = new RigDynamics[n];
+        _senseSlot = new int[n];
+        _pumping = setup.Race.Pumping;
+        _skill = new double[n]; _sheetGain = new double[n]; _crossYaw = new double[n]; _invCarveRadius = new double[n];
         _splits = new List<double>[n];
         _spot = new Vec2[n]; _wait = new Vec2[n]; _goMargin = new double[n];
         _sources = new ShadowSource[n];
@@ -95,8 +102,13 @@ public sealed partial class Race
         {
             var b = setup.Boards[i];
             _rigs[i] = byEquipment[b.Equipment];
+            _rig[i] = _rigs[i].Rig;
+            _senseSlot[i] = (_senseEvery - i % _senseEvery) % _senseEvery; // board i samples when (i + phase) % every == 0
             _skill[i] = b.Equipment.Rider.Skill;
             _sheetGain[i] = Math.Min(1, Dt / Tuning.Lerp(Tuning.SheetLagExpertS, Tuning.SheetLagNoviceS, _skill[i]));
+            // Stepping round the mast the board swings through twice the cross-over angle in the crossing time.
+            _crossYaw[i] = Units.Unit.DegToRad(2 * Tuning.TackCrossStartDeg) / Tuning.Lerp(Tuning.TackCrossExpertS, Tuning.TackCrossNoviceS, _skill[i]);
+            _invCarveRadius[i] = 1 / Tuning.Lerp(Tuning.CarveRadiusExpertM, Tuning.CarveRadiusNoviceM, _skill[i]);
             _splits[i] = new List<double>();
             var e = World.Create(new BoardId { Value = i }, new Pose(), new Motion());
             World.Add(e, new RigRef { Index = i });

@@ -31,9 +31,14 @@ public sealed class RigDynamics
     public double CentreOfEffortM { get; }
     public double MaxHeelingMomentNm { get; }
     public double MastHeightM { get; }
+    /// <summary>The hull and rider models (shortcuts used by the race step).</summary>
+    public Hull.HullModel Hull { get; }
+    public Rider.RiderModel Rider { get; }
     readonly double _rhoAir, _rhoWater, _nu;
-    // [beta, f] tables, normalised by q A: drive, total side, sail side (for heel); and the attack angle
-    readonly float[] _drive, _side, _sailSide, _alpha;
+    // [beta, f] table, normalised by q A: drive, total side, sail side (for heel) and the attack angle, interleaved so a
+    // bilinear look-up touches two or three cache lines (a fleet of distinct rigs does not fit in the L2 cache).
+    struct Cell { public float Drive, Side, SailSide, Alpha; }
+    readonly Cell[] _cells;
     readonly double[] _fullSailSide; // |c_s*| per beta at the best unconstrained trim
     readonly double[] _gradient;
     readonly double[] _finProfile; // fin profile drag coefficient by water speed
@@ -43,13 +48,14 @@ public sealed class RigDynamics
     {
         Physics = new BoardPhysics(eq);
         MassKg = eq.TotalMassKg;
+        Hull = Physics.Hull; Rider = Physics.Rider;
         SailAreaM2 = Physics.Sail.AreaM2;
         CentreOfEffortM = Physics.Sail.CentreOfEffortM;
         MaxHeelingMomentNm = Physics.Rider.MaxHeelingMomentNm;
         MastHeightM = Physics.Sail.LuffM + BoardPhysics.DeckHeightM;
         _rhoAir = Physics.AirDensity; _rhoWater = Physics.WaterDensity; _nu = Physics.WaterViscosity;
         int nb = BetaSteps + 1, nf = FSteps + 1;
-        _drive = new float[nb * nf]; _side = new float[nb * nf]; _sailSide = new float[nb * nf]; _alpha = new float[nb * nf];
+        _cells = new Cell[nb * nf];
         _fullSailSide = new double[nb];
         BuildTrimTable(nb, nf);
         _gradient = new double[(int)(GradientMax / GradientStep) + 2];
@@ -97,7 +103,7 @@ public sealed class RigDynamics
                     for (int i = 1; i < n; i++) if (ss[i] < ss[pick]) pick = i;
                 }
                 int j = b * nf + k;
-                _drive[j] = (float)dr[pick]; _side[j] = (float)sd[pick]; _sailSide[j] = (float)ss[pick]; _alpha[j] = (float)al[pick];
+                _cells[j] = new Cell { Drive = (float)dr[pick], Side = (float)sd[pick], SailSide = (float)ss[pick], Alpha = (float)al[pick] };
             }
         }
     }
@@ -125,6 +131,24 @@ public sealed class RigDynamics
         return _fullSailSide[i] + (x - i) * (_fullSailSide[i + 1] - _fullSailSide[i]);
     }
 
+    /// <summary>
+    /// The step's trim in one pass: the rider's sheet moves by <paramref name="gain"/> (0..1) of the way from
+    /// <paramref name="sheet"/> towards the wanted power capped by the heel limit; returns the sail force at the new sheet.
+    /// </summary>
+    public SailForce Trim(double aws, double betaRad, double wantPower, ref double sheet, double gain)
+    {
+        double x = Math.Clamp(betaRad * (180 / Math.PI), 0, BetaSteps);
+        int i = Math.Min((int)x, BetaSteps - 1);
+        double fx = x - i;
+        double q = 0.5 * _rhoAir * aws * aws;
+        double fullSide = _fullSailSide[i] + fx * (_fullSailSide[i + 1] - _fullSailSide[i]);
+        double full = q * SailAreaM2 * CentreOfEffortM * fullSide;
+        double cap = full <= MaxHeelingMomentNm ? 1.0 : MaxHeelingMomentNm / full;
+        double want = Math.Min(wantPower, cap);
+        sheet += gain * (want - sheet);
+        return Sail(aws, betaRad, sheet);
+    }
+
     /// <summary>Sail force at apparent wind speed (m/s) and angle beta (rad, 0..pi) with sheet fraction f (0..1).</summary>
     public SailForce Sail(double aws, double betaRad, double f)
     {
@@ -137,10 +161,12 @@ public sealed class RigDynamics
         const int nf = FSteps + 1;
         int j00 = i * nf + k, j10 = j00 + nf;
         double w00 = (1 - fx) * (1 - fy), w01 = (1 - fx) * fy, w10 = fx * (1 - fy), w11 = fx * fy;
-        double cd = w00 * _drive[j00] + w01 * _drive[j00 + 1] + w10 * _drive[j10] + w11 * _drive[j10 + 1];
-        double cs = w00 * _side[j00] + w01 * _side[j00 + 1] + w10 * _side[j10] + w11 * _side[j10 + 1];
-        double css = w00 * _sailSide[j00] + w01 * _sailSide[j00 + 1] + w10 * _sailSide[j10] + w11 * _sailSide[j10 + 1];
-        double a = w00 * _alpha[j00] + w01 * _alpha[j00 + 1] + w10 * _alpha[j10] + w11 * _alpha[j10 + 1];
+        ref readonly var c00 = ref _cells[j00]; ref readonly var c01 = ref _cells[j00 + 1];
+        ref readonly var c10 = ref _cells[j10]; ref readonly var c11 = ref _cells[j10 + 1];
+        double cd = w00 * c00.Drive + w01 * c01.Drive + w10 * c10.Drive + w11 * c11.Drive;
+        double cs = w00 * c00.Side + w01 * c01.Side + w10 * c10.Side + w11 * c11.Side;
+        double css = w00 * c00.SailSide + w01 * c01.SailSide + w10 * c10.SailSide + w11 * c11.SailSide;
+        double a = w00 * c00.Alpha + w01 * c01.Alpha + w10 * c10.Alpha + w11 * c11.Alpha;
         double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
         return new SailForce(qa * cd, qa * cs, a, qa * css * CentreOfEffortM / MaxHeelingMomentNm, f);
     }

@@ -26,7 +26,29 @@ public sealed class World
     internal IReadOnlyList<Archetype> Archetypes => _archetypes;
 
     /// <summary>The world-local id of a component type (registered on first use; at most 64 types per world).</summary>
-    public int TypeId<T>() where T : struct => TypeId(typeof(T));
+    public int TypeId<T>() where T : struct
+    {
+        // Fast path: a process-wide index per type (assigned once, it carries no world state) into this world's table.
+        int g = TypeIndex<T>.Value;
+        if (g < _localByGlobal.Length && _localByGlobal[g] > 0) return _localByGlobal[g] - 1;
+        int id = TypeId(typeof(T));
+        if (g >= _localByGlobal.Length) Array.Resize(ref _localByGlobal, Math.Max(g + 1, _localByGlobal.Length * 2));
+        _localByGlobal[g] = id + 1;
+        return id;
+    }
+
+    int[] _localByGlobal = new int[16];
+
+    static class TypeIndex
+    {
+        static int _next = -1;
+        public static int Next() => Interlocked.Increment(ref _next);
+    }
+
+    static class TypeIndex<T> where T : struct
+    {
+        public static readonly int Value = TypeIndex.Next();
+    }
 
     int TypeId(Type t)
     {

@@ -105,6 +105,17 @@ public sealed class HullModel
         return friction + WaveCoefficient * WeightN * fn * fn * fn * fn;
     }
 
+    /// <summary>Resistance (N) and lift fraction at speed V (m/s) from the table: the race step's fast path of <see cref="At"/>.</summary>
+    public double ResistanceAt(double speed, out double liftFraction)
+    {
+        double x = Math.Clamp(speed, 0, TableMax) / TableStep;
+        int i = Math.Min((int)x, _table.Length - 2);
+        double f = x - i;
+        ref readonly var a = ref _table[i]; ref readonly var b = ref _table[i + 1];
+        liftFraction = a.LiftFraction + f * (b.LiftFraction - a.LiftFraction);
+        return a.Resistance + f * (b.Resistance - a.Resistance);
+    }
+
     /// <summary>Hull state at speed V (m/s), interpolated from the table (clamped to 0..40 m/s).</summary>
     public HullState At(double speed)
     {

@@ -14,6 +14,10 @@ public static class Unit
     /// <summary>Wraps an angle in degrees to [0, 360).</summary>
     public static double WrapDeg360(double deg)
     {
+        // Fast paths give exactly what the remainder gives (Sterbenz: deg - 360 is exact for 360 <= deg < 720).
+        if (deg >= 0 && deg < 360.0) return deg;
+        if (deg >= 360.0 && deg < 720.0) return deg - 360.0;
+        if (deg < 0 && deg >= -360.0) { double w = deg + 360.0; return w < 360.0 ? w : 0; }
         double r = deg % 360.0;
         return r < 0 ? r + 360.0 : r;
     }

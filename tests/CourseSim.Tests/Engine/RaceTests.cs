@@ -172,3 +172,13 @@ public class RaceTests
         Assert.Contains("sail.area_m2", e4.Message);
     }
 }
+
+public class ScenarioDocTests
+{
+    [Fact]
+    public void EveryScenarioKeyIsDocumented()
+    {
+        var doc = File.ReadAllText(Path.Combine(CourseSim.Tests.Settings.RepoRoot.Path, "docs", "scenario.md"));
+        foreach (var key in ScenarioFile.Schema.Keys.Keys) Assert.Contains($"`{key}`", doc);
+    }
+}
