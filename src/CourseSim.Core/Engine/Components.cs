@@ -32,7 +32,9 @@ public struct Trim
 {
     /// <summary>Sheet fraction held (0 = luffing .. 1 = full power); follows the wanted value with the rider's reaction lag.</summary>
     public double Sheet;
-    public double AttackRad, HeelUse, Drive, Side, ApparentSpeed, ApparentAngleRad, TrueAngleRad;
+    /// <summary>Apparent wind angle to the track (rad, 0..pi), the angle the rig tables are read at.</summary>
+    public double BetaRad;
+    public double HeelUse, Drive, Side, ApparentSpeed, ApparentAngleRad, TrueAngleRad;
     public double FinDrag, HullDrag, PumpThrust;
     public bool Planing, Pumping;
 }

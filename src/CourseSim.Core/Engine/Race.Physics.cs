@@ -54,7 +54,7 @@ public sealed partial class Race
                 w = Shadow.Apply(w, pose[i].X, pose[i].Y, b);
                 ref var s = ref sw[i];
                 s.TrueSpeed = w.SpeedMs; s.TrueFromDeg = w.FromDeg;
-                s.FromRad = Unit.DegToRad(w.FromDeg); s.FromSin = Math.Sin(s.FromRad); s.FromCos = Math.Cos(s.FromRad);
+                s.FromRad = Unit.DegToRad(w.FromDeg); (s.FromSin, s.FromCos) = Math.SinCos(s.FromRad);
                 s.RigSpeed = w.SpeedMs * _rig[b].GradientFactor(w.SpeedMs);
                 if (first) { s.PerceivedSpeed = w.SpeedMs; s.PerceivedFromDeg = w.FromDeg; }
                 else
@@ -117,7 +117,7 @@ public sealed partial class Race
                 double hullDrag = hullModel.ResistanceAt(v, out double lift);
                 // Stepping round the mast puts the rider's weight on the nose: the board drops off the plane.
                 if (man[i].Kind == Manoeuvre.Tack && man[i].Phase == 1) { hullDrag = Math.Max(hullDrag, hullModel.UnplanedResistance(v)); lift = 0; }
-                t.AttackRad = sail.AttackRad; t.HeelUse = heel;
+                t.BetaRad = absBeta; t.HeelUse = heel;
                 // Heel use against the limit with the sheet the rider holds (lagging a gust): above 1 the rider is overpowered.
                 t.Drive = drive; t.Side = side; t.FinDrag = finDrag; t.HullDrag = hullDrag;
                 t.Planing = lift >= 0.5;
@@ -133,7 +133,8 @@ public sealed partial class Race
                             && v < PumpBelowShare * intent[i].TargetSpeed;
                 double power = pump ? rm.PowerFor(Equilibrium.VelocityPrediction.PumpBurstS) : 0;
                 rider[i].PumpPowerW = power;
-                if (power > 0 || rider[i].ReserveJ < rm.ReserveJ) rider[i].ReserveJ = rm.StepReserve(rider[i].ReserveJ, power, Dt);
+                if (power > 0) rider[i].ReserveJ = rm.StepReserve(rider[i].ReserveJ, power, Dt);
+                else if (rider[i].ReserveJ < rm.ReserveJ) rider[i].ReserveJ = rm.ReserveJ - (rm.ReserveJ - rider[i].ReserveJ) * _restDecay[b];
                 t.Pumping = pump;
                 t.PumpThrust = pump ? rm.PumpThrust(power, v) : 0;
             }
@@ -173,7 +174,7 @@ public sealed partial class Race
                 m.YawRate = turn / Dt;
                 p.Heading = Unit.WrapRadPi(p.Heading + turn);
                 double track = p.Heading - side * m.Leeway;
-                m.TrackSin = Math.Sin(track); m.TrackCos = Math.Cos(track);
+                (m.TrackSin, m.TrackCos) = Math.SinCos(track);
                 p.X += v * Dt * m.TrackSin;
                 p.Y += v * Dt * m.TrackCos;
                 if (Time >= 0) m.Distance += v * Dt;

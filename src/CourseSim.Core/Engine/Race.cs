@@ -49,7 +49,7 @@ public sealed partial class Race
 
     readonly Entity[] _entities;
     readonly RigPolar[] _rigs;
-    readonly double[] _skill, _sheetGain, _crossYaw, _invCarveRadius;
+    readonly double[] _skill, _sheetGain, _crossYaw, _invCarveRadius, _restDecay;
     readonly List<double>[] _splits;
     readonly Vec2[] _spot, _wait;
     readonly double[] _goMargin;
@@ -82,7 +82,7 @@ public sealed partial class Race
         _rig = new RigDynamics[n];
         _senseSlot = new int[n];
         _pumping = setup.Race.Pumping;
-        _skill = new double[n]; _sheetGain = new double[n]; _crossYaw = new double[n]; _invCarveRadius = new double[n];
+        _skill = new double[n]; _sheetGain = new double[n]; _crossYaw = new double[n]; _invCarveRadius = new double[n]; _restDecay = new double[n];
         _splits = new List<double>[n];
         _spot = new Vec2[n]; _wait = new Vec2[n]; _goMargin = new double[n];
         _sources = new ShadowSource[n];
@@ -109,6 +109,7 @@ public sealed partial class Race
             // Stepping round the mast the board swings through twice the cross-over angle in the crossing time.
             _crossYaw[i] = Units.Unit.DegToRad(2 * Tuning.TackCrossStartDeg) / Tuning.Lerp(Tuning.TackCrossExpertS, Tuning.TackCrossNoviceS, _skill[i]);
             _invCarveRadius[i] = 1 / Tuning.Lerp(Tuning.CarveRadiusExpertM, Tuning.CarveRadiusNoviceM, _skill[i]);
+            _restDecay[i] = _rig[i].Rider.RestingDecay(Dt);
             _splits[i] = new List<double>();
             var e = World.Create(new BoardId { Value = i }, new Pose(), new Motion());
             World.Add(e, new RigRef { Index = i });

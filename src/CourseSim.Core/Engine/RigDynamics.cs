@@ -4,8 +4,8 @@ using CourseSim.Units;
 
 namespace CourseSim.Engine;
 
-/// <summary>Sail forces for one step: drive and side force (N), attack angle, and the share of the rider's heeling limit in use.</summary>
-public readonly record struct SailForce(double Drive, double Side, double AttackRad, double HeelUse, double SheetFraction);
+/// <summary>Sail forces for one step: drive and side force (N), the share of the rider's heeling limit in use, and the sheet.</summary>
+public readonly record struct SailForce(double Drive, double Side, double HeelUse, double SheetFraction);
 
 /// <summary>
 /// One set-up's physics resolved into tables the race step can read in nanoseconds (docs/engine.md, "Rig tables").
@@ -20,7 +20,7 @@ public readonly record struct SailForce(double Drive, double Side, double Attack
 public sealed class RigDynamics
 {
     const int BetaSteps = 180;          // 1 deg
-    const int FSteps = 40;              // f = 0, 1/40 .. 1
+    const int FSteps = 20;              // f = 0, 1/20 .. 1
     const double AlphaStepRad = 0.25 * Math.PI / 180;
     const double GradientStep = 0.25, GradientMax = 40;   // m/s at 10 m
 
@@ -35,14 +35,18 @@ public sealed class RigDynamics
     public Hull.HullModel Hull { get; }
     public Rider.RiderModel Rider { get; }
     readonly double _rhoAir, _rhoWater, _nu;
-    // [beta, f] table, normalised by q A: drive, total side, sail side (for heel) and the attack angle, interleaved so a
-    // bilinear look-up touches two or three cache lines (a fleet of distinct rigs does not fit in the L2 cache).
-    struct Cell { public float Drive, Side, SailSide, Alpha; }
+    // [beta, f] table, normalised by q A: drive, total side and sail side (for heel), interleaved so a bilinear look-up
+    // touches two or three cache lines, and small enough (45 KB a rig) that a fleet's rigs stay in the L2 cache; the
+    // attack angle, needed only when a sample is recorded, in a table of its own.
+    struct Cell { public float Drive, Side, SailSide; }
     readonly Cell[] _cells;
+    readonly float[] _alpha;
     readonly double[] _fullSailSide; // |c_s*| per beta at the best unconstrained trim
     readonly double[] _gradient;
     readonly double[] _finProfile; // fin profile drag coefficient by water speed
     const double FinStep = 0.05, FinMax = 40;
+    // Fin constants: 0.5 rho A, the ventilation lift coefficient, the induced-drag factor 1/(pi e AR), 1/slope, the leeway cap.
+    readonly double _finQ, _finMaxLift, _finInduced, _finInvSlope, _finLeewayCap;
 
     public RigDynamics(Equipment eq)
     {
@@ -56,12 +60,19 @@ public sealed class RigDynamics
         _rhoAir = Physics.AirDensity; _rhoWater = Physics.WaterDensity; _nu = Physics.WaterViscosity;
         int nb = BetaSteps + 1, nf = FSteps + 1;
         _cells = new Cell[nb * nf];
+        _alpha = new float[nb * nf];
         _fullSailSide = new double[nb];
         BuildTrimTable(nb, nf);
         _gradient = new double[(int)(GradientMax / GradientStep) + 2];
         for (int i = 0; i < _gradient.Length; i++) _gradient[i] = WindGradient.Factor(i * GradientStep, Physics.RigHeightM);
         _finProfile = new double[(int)(FinMax / FinStep) + 2];
         for (int i = 0; i < _finProfile.Length; i++) _finProfile[i] = Physics.Fin.ProfileDrag(i * FinStep, _nu);
+        var fm = Physics.Fin;
+        _finQ = 0.5 * _rhoWater * fm.AreaM2;
+        _finMaxLift = fm.Spec.MaxLift;
+        _finInduced = Wings.WingTheory.InducedDrag(1, fm.EffectiveAspectRatio, CourseSim.Fin.FinModel.SpanEfficiency);
+        _finInvSlope = 1 / fm.LiftSlope;
+        _finLeewayCap = fm.Spec.MaxLift / fm.LiftSlope * 1.5;
     }
 
     void BuildTrimTable(int nb, int nf)
@@ -103,7 +114,8 @@ public sealed class RigDynamics
                     for (int i = 1; i < n; i++) if (ss[i] < ss[pick]) pick = i;
                 }
                 int j = b * nf + k;
-                _cells[j] = new Cell { Drive = (float)dr[pick], Side = (float)sd[pick], SailSide = (float)ss[pick], Alpha = (float)al[pick] };
+                _cells[j] = new Cell { Drive = (float)dr[pick], Side = (float)sd[pick], SailSide = (float)ss[pick] };
+                _alpha[j] = (float)al[pick];
             }
         }
     }
@@ -140,13 +152,26 @@ public sealed class RigDynamics
         double x = Math.Clamp(betaRad * (180 / Math.PI), 0, BetaSteps);
         int i = Math.Min((int)x, BetaSteps - 1);
         double fx = x - i;
-        double q = 0.5 * _rhoAir * aws * aws;
+        double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
         double fullSide = _fullSailSide[i] + fx * (_fullSailSide[i + 1] - _fullSailSide[i]);
-        double full = q * SailAreaM2 * CentreOfEffortM * fullSide;
+        double full = qa * CentreOfEffortM * fullSide;
         double cap = full <= MaxHeelingMomentNm ? 1.0 : MaxHeelingMomentNm / full;
         double want = Math.Min(wantPower, cap);
-        sheet += gain * (want - sheet);
-        return Sail(aws, betaRad, sheet);
+        double f = sheet + gain * (want - sheet);
+        sheet = f;
+        // The bilinear look-up of Sail, sharing the beta index.
+        double y = Math.Clamp(f, 0, 1) * FSteps;
+        int k = Math.Min((int)y, FSteps - 1);
+        double fy = y - k;
+        const int nf = FSteps + 1;
+        int j00 = i * nf + k, j10 = j00 + nf;
+        double w00 = (1 - fx) * (1 - fy), w01 = (1 - fx) * fy, w10 = fx * (1 - fy), w11 = fx * fy;
+        ref readonly var c00 = ref _cells[j00]; ref readonly var c01 = ref _cells[j00 + 1];
+        ref readonly var c10 = ref _cells[j10]; ref readonly var c11 = ref _cells[j10 + 1];
+        double cd = w00 * c00.Drive + w01 * c01.Drive + w10 * c10.Drive + w11 * c11.Drive;
+        double cs = w00 * c00.Side + w01 * c01.Side + w10 * c10.Side + w11 * c11.Side;
+        double css = w00 * c00.SailSide + w01 * c01.SailSide + w10 * c10.SailSide + w11 * c11.SailSide;
+        return new SailForce(qa * cd, qa * cs, qa * css * CentreOfEffortM / MaxHeelingMomentNm, f);
     }
 
     /// <summary>Sail force at apparent wind speed (m/s) and angle beta (rad, 0..pi) with sheet fraction f (0..1).</summary>
@@ -166,9 +191,22 @@ public sealed class RigDynamics
         double cd = w00 * c00.Drive + w01 * c01.Drive + w10 * c10.Drive + w11 * c11.Drive;
         double cs = w00 * c00.Side + w01 * c01.Side + w10 * c10.Side + w11 * c11.Side;
         double css = w00 * c00.SailSide + w01 * c01.SailSide + w10 * c10.SailSide + w11 * c11.SailSide;
-        double a = w00 * c00.Alpha + w01 * c01.Alpha + w10 * c10.Alpha + w11 * c11.Alpha;
         double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
-        return new SailForce(qa * cd, qa * cs, a, qa * css * CentreOfEffortM / MaxHeelingMomentNm, f);
+        return new SailForce(qa * cd, qa * cs, qa * css * CentreOfEffortM / MaxHeelingMomentNm, f);
+    }
+
+    /// <summary>The rider's attack angle (rad) at apparent wind angle beta (rad, 0..pi) and sheet fraction f.</summary>
+    public double AttackAngle(double betaRad, double f)
+    {
+        double x = Math.Clamp(Unit.RadToDeg(betaRad), 0, BetaSteps);
+        int i = Math.Min((int)x, BetaSteps - 1);
+        double fx = x - i;
+        double y = Math.Clamp(f, 0, 1) * FSteps;
+        int k = Math.Min((int)y, FSteps - 1);
+        double fy = y - k;
+        const int nf = FSteps + 1;
+        int j00 = i * nf + k, j10 = j00 + nf;
+        return (1 - fx) * ((1 - fy) * _alpha[j00] + fy * _alpha[j00 + 1]) + fx * ((1 - fy) * _alpha[j10] + fy * _alpha[j10 + 1]);
     }
 
     /// <summary>
@@ -178,30 +216,28 @@ public sealed class RigDynamics
     /// </summary>
     public double Fin(double side, double speed, out double leewayRad, out bool spun)
     {
-        var fin = Physics.Fin;
         double x = Math.Clamp(speed, 0, FinMax) / FinStep;
         int i = Math.Min((int)x, _finProfile.Length - 2);
         double cd0 = _finProfile[i] + (x - i) * (_finProfile[i + 1] - _finProfile[i]);
-        double qf = 0.5 * _rhoWater * speed * speed * fin.AreaM2;
+        double qf = _finQ * speed * speed;
         spun = false;
         if (qf < 1e-9) { leewayRad = 0; return 0; }
-        double cl = Math.Abs(side) / qf;
-        double maxLift = fin.Spec.MaxLift;
+        double abs = Math.Abs(side);
+        double cl = abs / qf;
         double drag;
-        if (cl > maxLift)
+        if (cl > _finMaxLift)
         {
             // Saturated fin: it carries its maximum, the rails carry the rest at a poor lift-to-drag ratio.
             spun = speed >= BoardPhysics.SpinOutMinSpeed;
-            drag = qf * (cd0 + Wings.WingTheory.InducedDrag(maxLift, fin.EffectiveAspectRatio, CourseSim.Fin.FinModel.SpanEfficiency))
-                   + (Math.Abs(side) - maxLift * qf) / BoardPhysics.HullSideLiftToDrag;
+            drag = qf * (cd0 + _finInduced * _finMaxLift * _finMaxLift) + (abs - _finMaxLift * qf) / BoardPhysics.HullSideLiftToDrag;
         }
-        else drag = qf * (cd0 + Wings.WingTheory.InducedDrag(cl, fin.EffectiveAspectRatio, CourseSim.Fin.FinModel.SpanEfficiency));
-        leewayRad = Math.Min(cl / fin.LiftSlope, maxLift / fin.LiftSlope * 1.5);
+        else drag = qf * (cd0 + _finInduced * cl * cl);
+        leewayRad = Math.Min(cl * _finInvSlope, _finLeewayCap);
         return drag;
     }
 
     /// <summary>Largest side force (N) the fin carries at water speed V before it ventilates.</summary>
-    public double FinCapacity(double speed) => Physics.Fin.Spec.MaxLift * 0.5 * _rhoWater * speed * speed * Physics.Fin.AreaM2;
+    public double FinCapacity(double speed) => _finMaxLift * _finQ * speed * speed;
 
     /// <summary>
     /// Largest sheet fraction whose side force the fin carries at water speed V without ventilating (1 if the fin holds

@@ -28,6 +28,7 @@ public sealed class CommandBuffer
     /// <summary>Applies every command in recorded order, then clears the buffer. Returns the handles of created entities.</summary>
     public IReadOnlyList<Entity> Playback(World world)
     {
+        if (_ops.Count == 0) return [];
         var created = new List<Entity>(_pending);
         foreach (var op in _ops) op(world, created);
         _ops.Clear();

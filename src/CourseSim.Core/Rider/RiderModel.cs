@@ -47,6 +47,9 @@ public sealed class RiderModel
     /// <summary>Skiba (2012) recovery time constant, s, when pumping at <paramref name="powerW"/> below CP.</summary>
     public double RecoveryTimeConstant(double powerW) => 546.0 * Math.Exp(-0.01 * (Spec.CriticalPowerW - powerW)) + 316.0;
 
+    /// <summary>Recovery factor exp(-dt / tau) over a step of <paramref name="dt"/> s at zero power (constant for a rider).</summary>
+    public double RestingDecay(double dt) => Math.Exp(-dt / RecoveryTimeConstant(0));
+
     /// <summary>Advances the reserve W'bal (J) by <paramref name="dt"/> seconds at power P (W).</summary>
     public double StepReserve(double reserveJ, double powerW, double dt)
     {

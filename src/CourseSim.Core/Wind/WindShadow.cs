@@ -11,19 +11,30 @@ public readonly record struct ShadowSource(double X, double Y, double ApparentFr
 /// (r0/r(x))^2 and tapering to nothing at its end. The wake is 8 mast heights long in light wind (8 kn and less) and 4 in
 /// strong wind (20 kn and more), linear between (common practice). Most of the loss is a header, not lower speed
 /// (wind-tunnel work of the Yacht Research Unit, Auckland): the air is turned towards the source's apparent wind.
-/// Nothing changes upwind of a sail. Neighbours are found through a uniform grid rebuilt by counting sort: O(N), no
-/// all-pairs loop, deterministic order.
+/// Nothing changes upwind of a sail. Neighbours are found through a spatial hash of wake-length cells rebuilt by
+/// counting sort: O(N) however the fleet spreads, no all-pairs loop, deterministic order.
 /// </summary>
 public sealed class WindShadow
 {
     readonly WindSettings _s;
     ShadowSource[] _src = [];
     double[] _dx = [], _dy = [], _len = [];
-    int[] _cellStart = [], _items = [], _fill = [];
-    int _count, _nx, _ny;
-    double _x0, _y0, _cell;
+    // Spatial hash: square cells one wake length across, hashed into a table of about twice as many buckets as sources,
+    // so building costs O(N) however far the fleet spreads (a dense grid over the fleet's box would grow with its area).
+    int[] _bucketStart = [], _fill = [];
+    // The sources in bucket order, packed so a look-up walks contiguous memory; each keeps its cell to reject hash collisions.
+    struct Packed { public double X, Y, Dx, Dy, Len, FromDeg; public int Index, Ci, Cj; }
+    Packed[] _packed = [];
+    int _count, _mask;
+    double _cell;
+    readonly double _deficit, _headerMax, _r0, _spread;
 
-    public WindShadow(WindSettings settings) => _s = settings;
+    public WindShadow(WindSettings settings)
+    {
+        _s = settings;
+        _deficit = settings.ShadowDeficit; _headerMax = settings.ShadowHeaderDeg;
+        _r0 = settings.ShadowHalfWidthM; _spread = settings.ShadowSpread;
+    }
 
     public int Count => _count;
 
@@ -35,74 +46,80 @@ public sealed class WindShadow
         return n * mastHeightM;
     }
 
-    /// <summary>Rebuilds the grid for this step's sources. Allocates only when the fleet grows.</summary>
+    static int Hash(int i, int j, int mask) => (int)(((uint)i * 0x9E3779B1u) ^ ((uint)j * 0x85EBCA77u)) & mask;
+
+    /// <summary>Rebuilds the hash for this step's sources. Allocates only when the fleet grows.</summary>
     public void Build(ReadOnlySpan<ShadowSource> sources)
     {
         _count = sources.Length;
         if (_src.Length < _count)
         {
             _src = new ShadowSource[_count]; _dx = new double[_count]; _dy = new double[_count];
-            _len = new double[_count]; _items = new int[_count];
+            _len = new double[_count]; _packed = new Packed[_count];
         }
         if (_count == 0) return;
-        double minX = double.MaxValue, minY = double.MaxValue, maxX = double.MinValue, maxY = double.MinValue, maxLen = 1;
+        int buckets = 64;
+        while (buckets < 2 * _count) buckets *= 2;
+        _mask = buckets - 1;
+        if (_bucketStart.Length < buckets + 1) { _bucketStart = new int[buckets + 1]; _fill = new int[buckets]; }
+        else { Array.Clear(_bucketStart, 0, buckets + 1); Array.Clear(_fill, 0, buckets); }
+        double maxLen = 1;
         for (int i = 0; i < _count; i++)
         {
             var s = sources[i];
             _src[i] = s;
             double r = Unit.DegToRad(s.ApparentFromDeg);
-            _dx[i] = -Math.Sin(r); _dy[i] = -Math.Cos(r); // the direction the apparent wind blows to
+            var (sn, cs) = Math.SinCos(r);
+            _dx[i] = -sn; _dy[i] = -cs; // the direction the apparent wind blows to
             _len[i] = WakeLength(s.MastHeightM, s.WindSpeedMs);
             maxLen = Math.Max(maxLen, _len[i]);
-            minX = Math.Min(minX, s.X); maxX = Math.Max(maxX, s.X); minY = Math.Min(minY, s.Y); maxY = Math.Max(maxY, s.Y);
         }
         _cell = maxLen;
-        _x0 = minX - _cell; _y0 = minY - _cell;
-        _nx = Math.Min(2048, (int)((maxX - _x0) / _cell) + 2);
-        _ny = Math.Min(2048, (int)((maxY - _y0) / _cell) + 2);
-        _cell = Math.Max(_cell, Math.Max((maxX - _x0) / (_nx - 1), (maxY - _y0) / (_ny - 1)));
-        int cells = _nx * _ny;
-        if (_cellStart.Length < cells + 1) _cellStart = new int[cells + 1];
-        else Array.Clear(_cellStart, 0, cells + 1);
-        for (int i = 0; i < _count; i++) _cellStart[CellOf(_src[i].X, _src[i].Y) + 1]++;
-        for (int c = 0; c < cells; c++) _cellStart[c + 1] += _cellStart[c];
-        if (_fill.Length < cells) _fill = new int[cells];
-        else Array.Clear(_fill, 0, cells);
-        for (int i = 0; i < _count; i++) { int c = CellOf(_src[i].X, _src[i].Y); _items[_cellStart[c] + _fill[c]++] = i; }
+        for (int i = 0; i < _count; i++) _bucketStart[Hash(CellIndex(_src[i].X), CellIndex(_src[i].Y), _mask) + 1]++;
+        for (int b = 0; b < buckets; b++) _bucketStart[b + 1] += _bucketStart[b];
+        for (int i = 0; i < _count; i++)
+        {
+            int ci = CellIndex(_src[i].X), cj = CellIndex(_src[i].Y);
+            int b = Hash(ci, cj, _mask);
+            _packed[_bucketStart[b] + _fill[b]++] = new Packed
+            {
+                X = _src[i].X, Y = _src[i].Y, Dx = _dx[i], Dy = _dy[i], Len = _len[i], FromDeg = _src[i].ApparentFromDeg, Index = i, Ci = ci, Cj = cj,
+            };
+        }
     }
 
-    int CellOf(double x, double y)
-    {
-        int i = Math.Clamp((int)((x - _x0) / _cell), 0, _nx - 1), j = Math.Clamp((int)((y - _y0) / _cell), 0, _ny - 1);
-        return j * _nx + i;
-    }
+    int CellIndex(double v) => (int)Math.Floor(Math.Clamp(v / _cell, -1e9, 1e9));
 
     /// <summary>Applies the shadows of all sources except <paramref name="exclude"/> at (x, y) to a free-stream sample.</summary>
     public WindSample Apply(WindSample free, double x, double y, int exclude = -1)
     {
         if (_count == 0 || !_s.Shadows) return free;
-        int ci = Math.Clamp((int)((x - _x0) / _cell), -1, _nx), cj = Math.Clamp((int)((y - _y0) / _cell), -1, _ny);
+        int ci = CellIndex(x), cj = CellIndex(y);
         double factor = 1, header = 0;
         for (int j = cj - 1; j <= cj + 1; j++)
-        {
-            if (j < 0 || j >= _ny) continue;
             for (int i = ci - 1; i <= ci + 1; i++)
             {
-                if (i < 0 || i >= _nx) continue;
-                int c = j * _nx + i;
-                for (int k = _cellStart[c]; k < _cellStart[c + 1]; k++)
+                int b = Hash(i, j, _mask);
+                for (int k = _bucketStart[b], end = _bucketStart[b + 1]; k < end; k++)
                 {
-                    int s = _items[k];
-                    if (s == exclude) continue;
-                    double w = Strength(s, x, y);
+                    ref readonly var p = ref _packed[k];
+                    if (p.Ci != i || p.Cj != j) continue; // another cell sharing the bucket
+                    // Same arithmetic as Strength, on the packed copy.
+                    double px = x - p.X, py = y - p.Y;
+                    double along = px * p.Dx + py * p.Dy;
+                    if (along <= 0 || along >= p.Len || p.Index == exclude) continue;
+                    double lateral = Math.Abs(-px * p.Dy + py * p.Dx);
+                    double r = _r0 + _spread * along;
+                    if (lateral > r) continue;
+                    double q = _r0 / r;
+                    double w = q * q * (1 - along / p.Len);
                     if (w <= 0) continue;
-                    factor *= 1 - _s.ShadowDeficit * w;
+                    factor *= 1 - _deficit * w;
                     // Turn the air towards the source's apparent wind direction.
-                    double diff = Unit.WrapDeg180(_src[s].ApparentFromDeg - free.FromDeg);
-                    header += Math.Sign(diff) * Math.Min(Math.Abs(diff), _s.ShadowHeaderDeg) * w;
+                    double diff = Unit.WrapDeg180(p.FromDeg - free.FromDeg);
+                    header += Math.Sign(diff) * Math.Min(Math.Abs(diff), _headerMax) * w;
                 }
             }
-        }
         if (factor == 1 && header == 0) return free;
         return new WindSample(free.SpeedMs * factor, Unit.WrapDeg360(free.FromDeg + header));
     }
