@@ -1,3 +1,4 @@
+using CourseSim.Entities;
 using CourseSim.Courses;
 using CourseSim.Units;
 
@@ -49,66 +50,67 @@ public sealed partial class Race
     /// </summary>
     void CourseProgress()
     {
-        var line = Course.Start;
-        double t1 = Time + Dt;
         foreach (var chunk in _active)
         {
             var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var st = chunk.Span<RaceStatus>();
             var ents = chunk.Entities;
-            for (int i = 0; i < chunk.Count; i++)
-            {
-                int b = ids[i].Value;
-                var p0 = _prev[b]; var p1 = new Vec2(pose[i].X, pose[i].Y);
-                ref var s = ref st[i];
-                switch (s.State)
-                {
-                    case RaceState.PreStart:
-                        if (Time < 0 && t1 >= 0 && line.Ahead(p1) > 0 && WithinLine(line, p1))
-                        {
-                            s.State = RaceState.Returning; s.Ocs = true;
-                            AddEvent(b, RaceEventKind.Ocs, pose[i], "on the course side at the signal");
-                        }
-                        else if (t1 >= 0 && line.Ahead(p0) <= 0 && line.Ahead(p1) > 0 && Segment.Crosses(p0, p1, line.A, line.B, out _))
-                        {
-                            s.State = RaceState.Racing;
-                            s.StartedS = Math.Max(0, CrossTime(line, p0, p1));
-                            _events.Add(new RaceEvent(s.StartedS, b, RaceEventKind.Started, p1.X, p1.Y, s.Ocs ? "after returning" : ""));
-                        }
-                        break;
-                    case RaceState.Returning:
-                        if (line.Ahead(p1) < 0) { s.State = RaceState.PreStart; AddEvent(b, RaceEventKind.Cleared, pose[i], "back below the line"); }
-                        break;
-                    case RaceState.Racing:
-                    {
-                        int r = Course.Check(s.NextStep, p0, p1);
-                        var step = Course.Steps[s.NextStep];
-                        if (r > 0)
-                        {
-                            bool finish = step.Kind == StepKind.Finish;
-                            double at = finish ? CrossTime(step.Line!, p0, p1) : t1;
-                            _splits[b].Add(at);
-                            s.NextStep++;
-                            if (finish)
-                            {
-                                s.State = RaceState.Finished; s.FinishedS = at;
-                                _events.Add(new RaceEvent(at, b, RaceEventKind.Finished, p1.X, p1.Y, ""));
-                                _commands.Add(ents[i], new Done());
-                                _finished++;
-                            }
-                            else _events.Add(new RaceEvent(t1, b, RaceEventKind.Rounded, p1.X, p1.Y, $"{step.Name}"));
-                        }
-                        else if (r < 0)
-                        {
-                            s.WrongSide++;
-                            AddEvent(b, RaceEventKind.WrongSide, pose[i], $"passed {step.Name} on the wrong side: must go back round it");
-                        }
-                        break;
-                    }
-                }
-                _prev[b] = p1;
-            }
+            for (int i = 0; i < ids.Length; i++) ProgressOne(ids[i].Value, ents[i], in pose[i], ref st[i]);
         }
     }
+
+    void ProgressOne(int b, Entity e, in Pose pose, ref RaceStatus s)
+    {
+        var line = Course.Start;
+        double t1 = Time + Dt;
+        var p0 = _prev[b]; var p1 = new Vec2(pose.X, pose.Y);
+        switch (s.State)
+        {
+            case RaceState.PreStart:
+                if (Time < 0 && t1 >= 0 && line.Ahead(p1) > 0 && WithinLine(line, p1))
+                {
+                    s.State = RaceState.Returning; s.Ocs = true;
+                    AddEvent(b, RaceEventKind.Ocs, pose, "on the course side at the signal");
+                }
+                else if (t1 >= 0 && line.Ahead(p0) <= 0 && line.Ahead(p1) > 0 && Segment.Crosses(p0, p1, line.A, line.B, out _))
+                {
+                    s.State = RaceState.Racing;
+                    s.StartedS = Math.Max(0, CrossTime(line, p0, p1));
+                    _events.Add(new RaceEvent(s.StartedS, b, RaceEventKind.Started, p1.X, p1.Y, s.Ocs ? "after returning" : ""));
+                }
+                break;
+            case RaceState.Returning:
+                if (line.Ahead(p1) < 0) { s.State = RaceState.PreStart; AddEvent(b, RaceEventKind.Cleared, pose, "back below the line"); }
+                break;
+            case RaceState.Racing:
+                {
+                    int r = Course.Check(s.NextStep, p0, p1);
+                    var step = Course.Steps[s.NextStep];
+                    if (r > 0)
+                    {
+                        bool finish = step.Kind == StepKind.Finish;
+                        double at = finish ? CrossTime(step.Line!, p0, p1) : t1;
+                        _splits[b].Add(at);
+                        s.NextStep++;
+                        if (finish)
+                        {
+                            s.State = RaceState.Finished; s.FinishedS = at;
+                            _events.Add(new RaceEvent(at, b, RaceEventKind.Finished, p1.X, p1.Y, ""));
+                            _commands.Add(e, new Done());
+                            _finished++;
+                        }
+                        else _events.Add(new RaceEvent(t1, b, RaceEventKind.Rounded, p1.X, p1.Y, $"{step.Name}"));
+                    }
+                    else if (r < 0)
+                    {
+                        s.WrongSide++;
+                        AddEvent(b, RaceEventKind.WrongSide, pose, $"passed {step.Name} on the wrong side: must go back round it");
+                    }
+                    break;
+                }
+        }
+        _prev[b] = p1;
+    }
+
 
     static bool WithinLine(CourseLine line, Vec2 p)
     {

@@ -20,78 +20,80 @@ public sealed partial class Race
         {
             var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>(); var sw = chunk.Span<SensedWind>();
             var trim = chunk.Span<Trim>(); var intent = chunk.Span<Intent>(); var man = chunk.Span<ManoeuvreState>(); var st = chunk.Span<RaceStatus>();
-            for (int i = 0; i < chunk.Count; i++)
-            {
-                int b = ids[i].Value;
-                ref var m = ref man[i];
-                double skill = _skill[b];
-                double twa = SignedAngle(sw[i].TrueFromDeg, pose[i].Heading);
-                double track = pose[i].Heading - Math.Sign(twa) * mo[i].Leeway;
-                switch (m.Kind)
-                {
-                    case Manoeuvre.None:
-                    {
-                        // Overpowered: the hazard grows with the moment beyond the limit and with lack of skill.
-                        double over = trim[i].HeelUse - 1;
-                        if (Settings.Falls && over > 0.02 && Time > -Settings.CountdownS + 5)
-                        {
-                            double hazard = Tuning.OverpowerHazardPerS * over * (1 - 0.8 * skill);
-                            if (_fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2) < hazard * Dt) { Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "overpowered in a gust"); break; }
-                        }
-                        double wantTwa = SignedAngle(sw[i].TrueFromDeg, intent[i].Heading);
-                        if (Math.Sign(wantTwa) != Math.Sign(twa) && twa != 0 && wantTwa != 0)
-                        {
-                            // twa - turn passes 0 (a tack) or pi (a gybe) on the shortest way round.
-                            bool throughWind = Math.Abs(twa) + Math.Abs(wantTwa) < 2 * Math.PI - Math.Abs(twa) - Math.Abs(wantTwa);
-                            m.Kind = throughWind ? Manoeuvre.Tack : Manoeuvre.Gybe;
-                            m.Phase = 0; m.Timer = 0; m.ExitHeading = intent[i].Heading;
-                            m.TurnSign = throughWind ? Math.Sign(twa) : -Math.Sign(twa);
-                        }
-                        break;
-                    }
-                    case Manoeuvre.Tack:
-                        m.Timer += Dt;
-                        if (m.Phase == 0 && Math.Abs(trim[i].ApparentAngleRad) < Unit.DegToRad(Tuning.TackCrossStartDeg)) { m.Phase = 1; m.Timer = 0; }
-                        else if (m.Phase == 1 && Math.Sign(twa) == -Math.Sign(m.TurnSign) && Math.Abs(twa) >= Unit.DegToRad(Tuning.TackCrossStartDeg))
-                        {
-                            m.Phase = 2; m.Timer = 0; st[i].Tacks++;
-                            AddEvent(b, RaceEventKind.Tack, pose[i]);
-                        }
-                        else if (m.Phase == 2 && Math.Abs(Unit.WrapRadPi(m.ExitHeading - track)) < Unit.DegToRad(3)) { m.Kind = Manoeuvre.None; m.Phase = 0; }
-                        // A tack the rider cannot finish (stalled head to wind for long) ends in a fall.
-                        if (m.Kind == Manoeuvre.Tack && m.Timer > 20) Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "stalled in a tack");
-                        break;
-                    case Manoeuvre.Gybe:
-                        m.Timer += Dt;
-                        if (m.Phase == 0 && Math.Sign(twa) == Math.Sign(m.TurnSign))
-                        {
-                            m.Phase = 1; m.Timer = 0; st[i].Gybes++;
-                            AddEvent(b, RaceEventKind.Gybe, pose[i]);
-                            double fail = trim[i].Planing ? Tuning.GybeFailNovicePlaning : Tuning.GybeFailNoviceDisplacement;
-                            fail *= (1 - skill) * (1 - skill);
-                            if (Settings.Falls && _fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2 + 1) < fail) { Fall(ref m, ref st[i], b, pose[i], mo[i].Speed, "failed gybe"); break; }
-                        }
-                        else if (m.Phase == 1 && m.Timer >= Tuning.Lerp(Tuning.GybeFlipExpertS, Tuning.GybeFlipNoviceS, skill)) { m.Phase = 2; m.Timer = 0; }
-                        else if (m.Phase == 2 && Math.Abs(Unit.WrapRadPi(m.ExitHeading - track)) < Unit.DegToRad(3)) { m.Kind = Manoeuvre.None; m.Phase = 0; }
-                        if (m.Kind == Manoeuvre.Gybe && m.Timer > 30) { m.Kind = Manoeuvre.None; m.Phase = 0; }
-                        break;
-                    case Manoeuvre.Fallen:
-                        m.Timer += Dt;
-                        if (m.Timer >= Tuning.Lerp(Tuning.WaterStartExpertS, Tuning.WaterStartNoviceS, skill))
-                        {
-                            // Water-started on a beam reach on the tack the board lies on.
-                            m.Kind = Manoeuvre.None; m.Phase = 0;
-                            double side = twa >= 0 ? 1 : -1;
-                            pose[i].Heading = Unit.WrapRadPi(Unit.DegToRad(sw[i].TrueFromDeg) - side * Math.PI / 2);
-                            double tr = pose[i].Heading - side * mo[i].Leeway;
-                            mo[i].TrackSin = Math.Sin(tr); mo[i].TrackCos = Math.Cos(tr);
-                            trim[i].Sheet = 0;
-                        }
-                        break;
-                }
-            }
+            for (int i = 0; i < ids.Length; i++)
+                ManoeuvreOne(ids[i].Value, ref pose[i], ref mo[i], in sw[i], ref trim[i], in intent[i], ref man[i], ref st[i]);
         }
     }
+
+    void ManoeuvreOne(int b, ref Pose pose, ref Motion mo, in SensedWind sw, ref Trim trim, in Intent intent, ref ManoeuvreState m, ref RaceStatus st)
+    {
+        double skill = _skill[b];
+        double twa = SignedAngle(sw.TrueFromDeg, pose.Heading);
+        double track = pose.Heading - Math.Sign(twa) * mo.Leeway;
+        switch (m.Kind)
+        {
+            case Manoeuvre.None:
+                {
+                    // Overpowered: the hazard grows with the moment beyond the limit and with lack of skill.
+                    double over = trim.HeelUse - 1;
+                    if (Settings.Falls && over > 0.02 && Time > -Settings.CountdownS + 5)
+                    {
+                        double hazard = Tuning.OverpowerHazardPerS * over * (1 - 0.8 * skill);
+                        if (_fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2) < hazard * Dt) { Fall(ref m, ref st, b, pose, mo.Speed, "overpowered in a gust"); break; }
+                    }
+                    double wantTwa = SignedAngle(sw.TrueFromDeg, intent.Heading);
+                    if (Math.Sign(wantTwa) != Math.Sign(twa) && twa != 0 && wantTwa != 0)
+                    {
+                        // twa - turn passes 0 (a tack) or pi (a gybe) on the shortest way round.
+                        bool throughWind = Math.Abs(twa) + Math.Abs(wantTwa) < 2 * Math.PI - Math.Abs(twa) - Math.Abs(wantTwa);
+                        m.Kind = throughWind ? Manoeuvre.Tack : Manoeuvre.Gybe;
+                        m.Phase = 0; m.Timer = 0; m.ExitHeading = intent.Heading;
+                        m.TurnSign = throughWind ? Math.Sign(twa) : -Math.Sign(twa);
+                    }
+                    break;
+                }
+            case Manoeuvre.Tack:
+                m.Timer += Dt;
+                if (m.Phase == 0 && Math.Abs(trim.ApparentAngleRad) < Unit.DegToRad(Tuning.TackCrossStartDeg)) { m.Phase = 1; m.Timer = 0; }
+                else if (m.Phase == 1 && Math.Sign(twa) == -Math.Sign(m.TurnSign) && Math.Abs(twa) >= Unit.DegToRad(Tuning.TackCrossStartDeg))
+                {
+                    m.Phase = 2; m.Timer = 0; st.Tacks++;
+                    AddEvent(b, RaceEventKind.Tack, pose);
+                }
+                else if (m.Phase == 2 && Math.Abs(Unit.WrapRadPi(m.ExitHeading - track)) < Unit.DegToRad(3)) { m.Kind = Manoeuvre.None; m.Phase = 0; }
+                // A tack the rider cannot finish (stalled head to wind for long) ends in a fall.
+                if (m.Kind == Manoeuvre.Tack && m.Timer > 20) Fall(ref m, ref st, b, pose, mo.Speed, "stalled in a tack");
+                break;
+            case Manoeuvre.Gybe:
+                m.Timer += Dt;
+                if (m.Phase == 0 && Math.Sign(twa) == Math.Sign(m.TurnSign))
+                {
+                    m.Phase = 1; m.Timer = 0; st.Gybes++;
+                    AddEvent(b, RaceEventKind.Gybe, pose);
+                    double fail = trim.Planing ? Tuning.GybeFailNovicePlaning : Tuning.GybeFailNoviceDisplacement;
+                    fail *= (1 - skill) * (1 - skill);
+                    if (Settings.Falls && _fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2 + 1) < fail) { Fall(ref m, ref st, b, pose, mo.Speed, "failed gybe"); break; }
+                }
+                else if (m.Phase == 1 && m.Timer >= Tuning.Lerp(Tuning.GybeFlipExpertS, Tuning.GybeFlipNoviceS, skill)) { m.Phase = 2; m.Timer = 0; }
+                else if (m.Phase == 2 && Math.Abs(Unit.WrapRadPi(m.ExitHeading - track)) < Unit.DegToRad(3)) { m.Kind = Manoeuvre.None; m.Phase = 0; }
+                if (m.Kind == Manoeuvre.Gybe && m.Timer > 30) { m.Kind = Manoeuvre.None; m.Phase = 0; }
+                break;
+            case Manoeuvre.Fallen:
+                m.Timer += Dt;
+                if (m.Timer >= Tuning.Lerp(Tuning.WaterStartExpertS, Tuning.WaterStartNoviceS, skill))
+                {
+                    // Water-started on a beam reach on the tack the board lies on.
+                    m.Kind = Manoeuvre.None; m.Phase = 0;
+                    double side = twa >= 0 ? 1 : -1;
+                    pose.Heading = Unit.WrapRadPi(Unit.DegToRad(sw.TrueFromDeg) - side * Math.PI / 2);
+                    double tr = pose.Heading - side * mo.Leeway;
+                    mo.TrackSin = Math.Sin(tr); mo.TrackCos = Math.Cos(tr);
+                    trim.Sheet = 0;
+                }
+                break;
+        }
+    }
+
 
     void Fall(ref ManoeuvreState m, ref RaceStatus st, int board, in Pose p, double speed, string why)
     {

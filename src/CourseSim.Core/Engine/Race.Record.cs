@@ -26,12 +26,21 @@ public sealed partial class Race
                 if (st[i].State == RaceState.Returning) flags |= 64;
                 row[b] = new BoardSample
                 {
-                    X = (float)pose[i].X, Y = (float)pose[i].Y, HeadingDeg = (float)Unit.WrapDeg360(Unit.RadToDeg(pose[i].Heading)),
-                    SpeedMs = (float)mo[i].Speed, LeewayDeg = (float)Unit.RadToDeg(mo[i].Leeway), AttackDeg = (float)Unit.RadToDeg(_rig[b].AttackAngle(t.BetaRad, t.Sheet)),
-                    HeelUse = (float)t.HeelUse, TwaDeg = (float)Unit.RadToDeg(t.TrueAngleRad), AwaDeg = (float)Unit.RadToDeg(t.ApparentAngleRad),
-                    TwsMs = (float)sw[i].TrueSpeed, TwdDeg = (float)sw[i].TrueFromDeg, Sheet = (float)t.Sheet,
+                    X = (float)pose[i].X,
+                    Y = (float)pose[i].Y,
+                    HeadingDeg = (float)Unit.WrapDeg360(Unit.RadToDeg(pose[i].Heading)),
+                    SpeedMs = (float)mo[i].Speed,
+                    LeewayDeg = (float)Unit.RadToDeg(mo[i].Leeway),
+                    AttackDeg = (float)Unit.RadToDeg(_rig[b].AttackAngle(t.BetaRad, t.Sheet)),
+                    HeelUse = (float)t.HeelUse,
+                    TwaDeg = (float)Unit.RadToDeg(t.TrueAngleRad),
+                    AwaDeg = (float)Unit.RadToDeg(t.ApparentAngleRad),
+                    TwsMs = (float)sw[i].TrueSpeed,
+                    TwdDeg = (float)sw[i].TrueFromDeg,
+                    Sheet = (float)t.Sheet,
                     ReserveShare = (float)(rider[i].ReserveJ / Math.Max(1, _rigs[b].Rig.Physics.Rider.ReserveJ)),
-                    Flags = flags, NextStep = (byte)Math.Min(255, st[i].NextStep),
+                    Flags = flags,
+                    NextStep = (byte)Math.Min(255, st[i].NextStep),
                 };
             }
         }

@@ -19,7 +19,6 @@ public sealed partial class Race
     double[] _lastTurn = [];
     bool[] _holding = [], _going = [];
     double[] _holdTwa = [];
-    double _speedOf(int b) => World.Get<Motion>(_entities[b]).Speed;
 
     /// <summary>
     /// Pins a board to a true wind angle (deg, positive = starboard tack) at full power, whatever its tactic: the engine's
@@ -47,76 +46,82 @@ public sealed partial class Race
     /// </summary>
     void Decide()
     {
-        if (_lastTurn.Length != BoardCount) { _lastTurn = new double[BoardCount]; Array.Fill(_lastTurn, double.NegativeInfinity); _holding = new bool[BoardCount]; _going = new bool[BoardCount]; }
+        EnsureTacticArrays();
         foreach (var chunk in _active)
         {
             var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var sw = chunk.Span<SensedWind>(); var intent = chunk.Span<Intent>();
-            var st = chunk.Span<RaceStatus>(); var man = chunk.Span<ManoeuvreState>();
-            for (int i = 0; i < chunk.Count; i++)
-            {
-                ref var it = ref intent[i];
-                if (Time < it.NextDecisionS) continue;
-                it.NextDecisionS += Settings.DecisionIntervalS;
-                if (man[i].Kind != Manoeuvre.None) continue; // busy: no new decision mid-manoeuvre
-                int b = ids[i].Value;
-                var p = new Vec2(pose[i].X, pose[i].Y);
-                double tws = sw[i].PerceivedSpeed, from = sw[i].PerceivedFromDeg;
-                double twaNow = SignedAngle(from, pose[i].Heading);
-                int tack = twaNow >= 0 ? 1 : -1;
-                bool mayTurn = Time - _lastTurn[b] >= MinTimeBetweenTurnsS;
-                double heading, power = 1;
-                if (_holdTwa.Length > b && !double.IsNaN(_holdTwa[b]))
-                {
-                    // Pinned to a true wind angle (polar checks): steer by the true wind at the rig, full power.
-                    it.Heading = Unit.WrapRadPi(Unit.DegToRad(sw[i].TrueFromDeg - _holdTwa[b])); it.Power = 1;
-                    it.TargetSpeed = _rigs[b].Speed(sw[i].TrueSpeed, Unit.DegToRad(_holdTwa[b]));
-                    continue;
-                }
-                switch (st[i].State)
-                {
-                    case RaceState.PreStart when Time < 0:
-                    {
-                        // Time on distance: hold below the line, then go so as to reach it at the planned time (the
-                        // signal plus this rider's margin); on the way, ease off whenever the line would come too soon.
-                        double h = LegHeading(b, p, _spot[b], tws, from, tack, true);
-                        var line = Course.Start;
-                        double remaining = _goMargin[b] - Time;
-                        double toLine = Math.Max(0, -line.Ahead(p));
-                        var dirH = Vec2.FromBearing(Unit.RadToDeg(h));
-                        double closing = Math.Max(0.3, Vec2.Dot(dirH, line.Normal));
-                        double vPolar = Math.Max(1.0, _rigs[b].Speed(tws, SignedAngle(from, h)));
-                        double v = _speedOf(b);
-                        double etaFull = toLine / (vPolar * closing) + (v < 0.7 * vPolar ? AccelerationAllowanceS : 0);
-                        if (!_holding[b] && (_wait[b] - p).Length < 8) _holding[b] = true;
-                        if (remaining <= etaFull || _going[b])
-                        {
-                            _going[b] = true; _holding[b] = true;
-                            heading = LegHeading(b, p, AimPoint(0, p), tws, from, tack, false);
-                            // Early: luff to kill speed (a board coasts about 2 s of its speed before it stops).
-                            double etaNow = toLine / Math.Max(0.3, v * closing);
-                            bool early = etaNow < remaining - 0.3 || toLine < CoastS * v * closing && remaining > CoastS;
-                            power = early ? 0 : 1;
-                        }
-                        else if (!_holding[b]) { heading = LegHeading(b, p, _wait[b], tws, from, tack, true); power = 0.6; }
-                        else { heading = pose[i].Heading; power = 0; }
-                        break;
-                    }
-                    case RaceState.PreStart:
-                        heading = LegHeading(b, p, _spot[b], tws, from, tack, mayTurn);
-                        break;
-                    case RaceState.Returning:
-                        heading = LegHeading(b, p, _wait[b], tws, from, tack, mayTurn);
-                        break;
-                    default:
-                        heading = LegHeading(b, p, AimPoint(st[i].NextStep, p), tws, from, tack, mayTurn);
-                        break;
-                }
-                if (Math.Sign(SignedAngle(from, heading)) != tack) _lastTurn[b] = Time;
-                it.Heading = heading; it.Power = power;
-                it.TargetSpeed = _rigs[b].Speed(tws, SignedAngle(from, heading));
-            }
+            var st = chunk.Span<RaceStatus>(); var man = chunk.Span<ManoeuvreState>(); var mo = chunk.Span<Motion>();
+            for (int i = 0; i < ids.Length; i++) DecideOne(ids[i].Value, in pose[i], in sw[i], ref intent[i], in st[i], in man[i], mo[i].Speed);
         }
     }
+
+    void EnsureTacticArrays()
+    {
+        if (_lastTurn.Length != BoardCount) { _lastTurn = new double[BoardCount]; Array.Fill(_lastTurn, double.NegativeInfinity); _holding = new bool[BoardCount]; _going = new bool[BoardCount]; }
+    }
+
+    void DecideOne(int b, in Pose pose, in SensedWind sw, ref Intent it, in RaceStatus st, in ManoeuvreState man, double speed)
+    {
+        if (Time < it.NextDecisionS) return;
+        it.NextDecisionS += Settings.DecisionIntervalS;
+        if (man.Kind != Manoeuvre.None) return; // busy: no new decision mid-manoeuvre
+        var p = new Vec2(pose.X, pose.Y);
+        double tws = sw.PerceivedSpeed, from = sw.PerceivedFromDeg;
+        double twaNow = SignedAngle(from, pose.Heading);
+        int tack = twaNow >= 0 ? 1 : -1;
+        bool mayTurn = Time - _lastTurn[b] >= MinTimeBetweenTurnsS;
+        double heading, power = 1;
+        if (_holdTwa.Length > b && !double.IsNaN(_holdTwa[b]))
+        {
+            // Pinned to a true wind angle (polar checks): steer by the true wind at the rig, full power.
+            it.Heading = Unit.WrapRadPi(Unit.DegToRad(sw.TrueFromDeg - _holdTwa[b])); it.Power = 1;
+            it.TargetSpeed = _rigs[b].Speed(sw.TrueSpeed, Unit.DegToRad(_holdTwa[b]));
+            return;
+        }
+        switch (st.State)
+        {
+            case RaceState.PreStart when Time < 0:
+                {
+                    // Time on distance: hold below the line, then go so as to reach it at the planned time (the
+                    // signal plus this rider's margin); on the way, ease off whenever the line would come too soon.
+                    double h = LegHeading(b, p, _spot[b], tws, from, tack, true);
+                    var line = Course.Start;
+                    double remaining = _goMargin[b] - Time;
+                    double toLine = Math.Max(0, -line.Ahead(p));
+                    var dirH = Vec2.FromBearing(Unit.RadToDeg(h));
+                    double closing = Math.Max(0.3, Vec2.Dot(dirH, line.Normal));
+                    double vPolar = Math.Max(1.0, _rigs[b].Speed(tws, SignedAngle(from, h)));
+                    double v = speed;
+                    double etaFull = toLine / (vPolar * closing) + (v < 0.7 * vPolar ? AccelerationAllowanceS : 0);
+                    if (!_holding[b] && (_wait[b] - p).Length < 8) _holding[b] = true;
+                    if (remaining <= etaFull || _going[b])
+                    {
+                        _going[b] = true; _holding[b] = true;
+                        heading = LegHeading(b, p, AimPoint(0, p), tws, from, tack, false);
+                        // Early: luff to kill speed (a board coasts about 2 s of its speed before it stops).
+                        double etaNow = toLine / Math.Max(0.3, v * closing);
+                        bool early = etaNow < remaining - 0.3 || toLine < CoastS * v * closing && remaining > CoastS;
+                        power = early ? 0 : 1;
+                    }
+                    else if (!_holding[b]) { heading = LegHeading(b, p, _wait[b], tws, from, tack, true); power = 0.6; }
+                    else { heading = pose.Heading; power = 0; }
+                    break;
+                }
+            case RaceState.PreStart:
+                heading = LegHeading(b, p, _spot[b], tws, from, tack, mayTurn);
+                break;
+            case RaceState.Returning:
+                heading = LegHeading(b, p, _wait[b], tws, from, tack, mayTurn);
+                break;
+            default:
+                heading = LegHeading(b, p, AimPoint(st.NextStep, p), tws, from, tack, mayTurn);
+                break;
+        }
+        if (Math.Sign(SignedAngle(from, heading)) != tack) _lastTurn[b] = Time;
+        it.Heading = heading; it.Power = power;
+        it.TargetSpeed = _rigs[b].Speed(tws, SignedAngle(from, heading));
+    }
+
 
     /// <summary>
     /// Where a rider aims for step i. A mark is approached by an entry point beside it on the side it is to be left

@@ -82,9 +82,15 @@ public static class ScenarioFile
             throw f.ErrorAt("race.start_time_utc", $"'{startText}' is not an ISO 8601 time such as 2026-06-14T13:00:00Z");
         var race = new RaceSettings
         {
-            StepHz = f.Number("race.step_hz"), WindHz = f.Number("race.wind_hz"), CountdownS = f.Number("race.countdown_s"), TimeLimitS = f.Number("race.time_limit_s"),
-            RecordIntervalS = f.Number("race.record_interval_s"), DecisionIntervalS = f.Number("race.decision_interval_s"),
-            Falls = f.Flag("race.falls"), Pumping = f.Flag("race.pumping"), StartTimeUtc = DateTime.SpecifyKind(start, DateTimeKind.Utc),
+            StepHz = f.Number("race.step_hz"),
+            WindHz = f.Number("race.wind_hz"),
+            CountdownS = f.Number("race.countdown_s"),
+            TimeLimitS = f.Number("race.time_limit_s"),
+            RecordIntervalS = f.Number("race.record_interval_s"),
+            DecisionIntervalS = f.Number("race.decision_interval_s"),
+            Falls = f.Flag("race.falls"),
+            Pumping = f.Flag("race.pumping"),
+            StartTimeUtc = DateTime.SpecifyKind(start, DateTimeKind.Utc),
             Seed = seed ?? (ulong)f.Number("race.seed"),
         };
         if (race.RecordIntervalS < 1 / race.StepHz) throw f.ErrorAt("race.record_interval_s", $"must be at least one step (1/{race.StepHz} s)");
