@@ -102,7 +102,7 @@ public sealed partial class Race
         double st0 = mo.TrackSin, ct0 = mo.TrackCos;
         double ax = -sw.RigSpeed * sw.FromSin - v * st0, ay = -sw.RigSpeed * sw.FromCos - v * ct0;
         double aws = Math.Sqrt(ax * ax + ay * ay);
-        double appFrom = Math.Atan2(-ax, -ay);
+        double appFrom = FastMath.Atan2(-ax, -ay); // to 1e-5 rad: the rig tables are in 1-degree steps
         double beta = Unit.WrapRadPi(appFrom - track);
         t.TrueAngleRad = Unit.WrapRadPi(sw.FromRad - pose.Heading);
         t.ApparentSpeed = aws;

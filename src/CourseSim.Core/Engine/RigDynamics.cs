@@ -247,12 +247,19 @@ public sealed class RigDynamics
     {
         if (speed < BoardPhysics.SpinOutMinSpeed) return upper;
         double cap = FinCapacity(speed);
-        if (Math.Abs(Sail(aws, betaRad, upper).Side) <= cap) return upper;
+        double hiSide = Math.Abs(Sail(aws, betaRad, upper).Side);
+        if (hiSide <= cap) return upper;
+        // Side force grows smoothly with the sheet from its luffing value: regula falsi (Illinois variant) to 1e-4.
         double lo = 0, hi = upper;
-        for (int i = 0; i < 12; i++)
+        double fLo = Math.Abs(Sail(aws, betaRad, 0).Side) - cap, fHi = hiSide - cap;
+        if (fLo >= 0) return 0;
+        int side = 0;
+        for (int i = 0; i < 8 && hi - lo > 1e-4; i++)
         {
-            double mid = 0.5 * (lo + hi);
-            if (Math.Abs(Sail(aws, betaRad, mid).Side) <= cap) lo = mid; else hi = mid;
+            double mid = lo - fLo * (hi - lo) / (fHi - fLo);
+            double fm = Math.Abs(Sail(aws, betaRad, mid).Side) - cap;
+            if (fm <= 0) { lo = mid; fLo = fm; if (side == -1) fHi *= 0.5; side = -1; }
+            else { hi = mid; fHi = fm; if (side == 1) fLo *= 0.5; side = 1; }
         }
         return lo;
     }

@@ -16,7 +16,7 @@ public sealed class RigPolar
     public const double TwsStepKn = 1, TwsMaxKn = 40;
     const int TwaSteps = 180; // 1 deg
     public RigDynamics Rig { get; }
-    readonly double[] _speed;     // [tws, twa] m/s
+    readonly float[] _speed;      // [tws, twa] m/s (single precision: the table is read at every decision of every rider)
     readonly double[] _upTwa, _downTwa, _upVmg, _downVmg; // per tws
     readonly int _nt;
 
@@ -29,7 +29,7 @@ public sealed class RigPolar
     {
         Rig = rig;
         _nt = (int)(TwsMaxKn / TwsStepKn) + 1;
-        _speed = new double[_nt * (TwaSteps + 1)];
+        _speed = new float[_nt * (TwaSteps + 1)];
         _upTwa = new double[_nt]; _downTwa = new double[_nt]; _upVmg = new double[_nt]; _downVmg = new double[_nt];
         double burst = rig.Physics.Rider.PowerFor(VelocityPrediction.PumpBurstS);
         for (int w = 0; w < _nt; w++)
@@ -40,7 +40,7 @@ public sealed class RigPolar
             for (int a = 0; a <= TwaSteps; a++)
             {
                 double v = SteadySpeed(atRig, Unit.DegToRad(a), burst);
-                _speed[w * (TwaSteps + 1) + a] = v;
+                _speed[w * (TwaSteps + 1) + a] = (float)v;
                 double vmg = v * Math.Cos(Unit.DegToRad(a));
                 if (a >= 25 && a <= 90 && vmg > bestUp) { bestUp = vmg; upAt = a; }
                 if (a >= 90 && a <= 178 && -vmg > bestDown) { bestDown = -vmg; downAt = a; }

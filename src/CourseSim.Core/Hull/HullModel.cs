@@ -39,6 +39,8 @@ public sealed class HullModel
     public double RestingWettedAreaM2 { get; }
     readonly double _rho, _nu, _g;
     readonly HullState[] _table;
+    // Resistance and lift fraction only, in single precision: the race step's compact copy (stays in cache).
+    readonly float[] _fast;
 
     public HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity = 9.80665)
     {
@@ -52,6 +54,8 @@ public sealed class HullModel
         int n = (int)(TableMax / TableStep) + 1;
         _table = new HullState[n];
         for (int i = 0; i < n; i++) _table[i] = Compute(i * TableStep);
+        _fast = new float[2 * n];
+        for (int i = 0; i < n; i++) { _fast[2 * i] = (float)_table[i].Resistance; _fast[2 * i + 1] = (float)_table[i].LiftFraction; }
     }
 
     /// <summary>Volume Froude number at speed V (m/s).</summary>
@@ -105,15 +109,15 @@ public sealed class HullModel
         return friction + WaveCoefficient * WeightN * fn * fn * fn * fn;
     }
 
-    /// <summary>Resistance (N) and lift fraction at speed V (m/s) from the table: the race step's fast path of <see cref="At"/>.</summary>
+    /// <summary>Resistance (N) and lift fraction at speed V (m/s) from the table in single precision: the race step's fast path of <see cref="At"/>.</summary>
     public double ResistanceAt(double speed, out double liftFraction)
     {
         double x = Math.Clamp(speed, 0, TableMax) / TableStep;
         int i = Math.Min((int)x, _table.Length - 2);
         double f = x - i;
-        ref readonly var a = ref _table[i]; ref readonly var b = ref _table[i + 1];
-        liftFraction = a.LiftFraction + f * (b.LiftFraction - a.LiftFraction);
-        return a.Resistance + f * (b.Resistance - a.Resistance);
+        int j = 2 * i;
+        liftFraction = _fast[j + 1] + f * (_fast[j + 3] - _fast[j + 1]);
+        return _fast[j] + f * (_fast[j + 2] - _fast[j]);
     }
 
     /// <summary>Hull state at speed V (m/s), interpolated from the table (clamped to 0..40 m/s).</summary>

@@ -30,6 +30,7 @@ public static class Unit
     }
 
     /// <summary>Wraps an angle in radians to (-pi, pi].</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public static double WrapRadPi(double rad)
     {
         // Fast path for the usual case (within one turn either side), exact for it; the remainder otherwise.
