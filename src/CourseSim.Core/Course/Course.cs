@@ -51,6 +51,8 @@ public sealed class Course
     public double AxisDeg { get; }
     readonly Vec2[] _outer; // per step: unit outer bisector (marks only)
     readonly Vec2[] _incoming;
+    readonly Vec2[] _targets;
+    readonly double[] _reach2;
 
     public Course(string kind, CourseLine start, IReadOnlyList<CourseStep> steps, double axisDeg)
     {
@@ -64,6 +66,15 @@ public sealed class Course
         }
         Marks = marks;
         _outer = new Vec2[steps.Count]; _incoming = new Vec2[steps.Count];
+        _targets = new Vec2[steps.Count]; _reach2 = new double[steps.Count];
+        for (int i = 0; i < steps.Count; i++)
+        {
+            _targets[i] = steps[i].Target;
+            // Mark: its rounding ray and wrong-side line; gate or finish: half its width; plus 50 m for one step's travel.
+            double reach = steps[i].Kind == StepKind.Mark ? Math.Max(RoundingRayM, WrongSideReachM)
+                : steps[i].Kind == StepKind.Gate ? 0.5 * (steps[i].Second!.Position - steps[i].Mark!.Position).Length : 0.5 * steps[i].Line!.Length;
+            _reach2[i] = (reach + 50) * (reach + 50);
+        }
         for (int i = 0; i < steps.Count; i++)
         {
             var prev = i == 0 ? start.Mid : steps[i - 1].Target;
@@ -91,6 +102,9 @@ public sealed class Course
     /// </summary>
     public int Check(int i, Vec2 p0, Vec2 p1)
     {
+        // Far from the step (beyond its rays or line and a step's travel), nothing can be crossed.
+        var far = p1 - _targets[i];
+        if (far.X * far.X + far.Y * far.Y > _reach2[i]) return 0;
         var s = Steps[i];
         switch (s.Kind)
         {

@@ -12,9 +12,9 @@ public readonly record struct Vec2(double X, double Y)
     /// <summary>z of the cross product: positive when b is counter-clockwise of a.</summary>
     public static double Cross(Vec2 a, Vec2 b) => a.X * b.Y - a.Y * b.X;
     /// <summary>Unit vector of a compass bearing (deg clockwise from north).</summary>
-    public static Vec2 FromBearing(double deg) { double r = deg * Math.PI / 180; return new(Math.Sin(r), Math.Cos(r)); }
+    public static Vec2 FromBearing(double deg) { var (s, c) = CourseSim.Units.FastMath.SinCos(deg * Math.PI / 180); return new(s, c); }
     /// <summary>Compass bearing (deg, 0..360) of this vector.</summary>
-    public double Bearing => CourseSim.Units.Unit.WrapDeg360(Math.Atan2(X, Y) * 180 / Math.PI);
+    public double Bearing => CourseSim.Units.Unit.WrapDeg360(CourseSim.Units.FastMath.Atan2(X, Y) * 180 / Math.PI);
 }
 
 public static class Segment

@@ -35,6 +35,8 @@ public struct Trim
     /// <summary>Apparent wind angle to the track (rad, 0..pi), the angle the rig tables are read at.</summary>
     public double BetaRad;
     public double HeelUse, Drive, Side, ApparentSpeed, ApparentAngleRad, TrueAngleRad;
+    /// <summary>Unit vector the apparent wind blows to (NaN before the first step): the direction of this sail's wake.</summary>
+    public double AppDownX, AppDownY;
     public double FinDrag, HullDrag, PumpThrust;
     public bool Planing, Pumping;
 }

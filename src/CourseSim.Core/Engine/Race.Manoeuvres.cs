@@ -36,7 +36,7 @@ public sealed partial class Race
                 {
                     // Overpowered: the hazard grows with the moment beyond the limit and with lack of skill.
                     double over = trim.HeelUse - 1;
-                    if (Settings.Falls && over > 0.02 && Time > -Settings.CountdownS + 5)
+                    if (over > 0.02 && _falls && Time > _fallsFromS)
                     {
                         double hazard = Tuning.OverpowerHazardPerS * over * (1 - 0.8 * skill);
                         if (_fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2) < hazard * Dt) { Fall(ref m, ref st, b, pose, mo.Speed, "overpowered in a gust"); break; }
@@ -72,7 +72,7 @@ public sealed partial class Race
                     AddEvent(b, RaceEventKind.Gybe, pose);
                     double fail = trim.Planing ? Tuning.GybeFailNovicePlaning : Tuning.GybeFailNoviceDisplacement;
                     fail *= (1 - skill) * (1 - skill);
-                    if (Settings.Falls && _fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2 + 1) < fail) { Fall(ref m, ref st, b, pose, mo.Speed, "failed gybe"); break; }
+                    if (_falls && _fallRng.For((ulong)b).Uniform((ulong)StepIndex * 2 + 1) < fail) { Fall(ref m, ref st, b, pose, mo.Speed, "failed gybe"); break; }
                 }
                 else if (m.Phase == 1 && m.Timer >= Tuning.Lerp(Tuning.GybeFlipExpertS, Tuning.GybeFlipNoviceS, skill)) { m.Phase = 2; m.Timer = 0; }
                 else if (m.Phase == 2 && Math.Abs(Unit.WrapRadPi(m.ExitHeading - track)) < Unit.DegToRad(3)) { m.Kind = Manoeuvre.None; m.Phase = 0; }

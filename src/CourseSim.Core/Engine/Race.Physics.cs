@@ -49,7 +49,7 @@ public sealed partial class Race
                     double appFrom = Unit.WrapDeg360(Unit.RadToDeg(pose[i].Heading + trim[i].ApparentAngleRad));
                     // A finished board sails off the course and leaves no wake.
                     double wind = st[i].State == RaceState.Finished ? 0 : sw[i].TrueSpeed;
-                    _sources[ids[i].Value] = new ShadowSource(pose[i].X, pose[i].Y, appFrom, rig.MastHeightM, wind);
+                    _sources[ids[i].Value] = new ShadowSource(pose[i].X, pose[i].Y, appFrom, rig.MastHeightM, wind, trim[i].AppDownX, trim[i].AppDownY);
                 }
             }
             Shadow.Build(_sources);
@@ -63,7 +63,7 @@ public sealed partial class Race
         var w = Wind.Sample(pose.X, pose.Y, Time);
         w = Shadow.Apply(w, pose.X, pose.Y, b);
         sw.TrueSpeed = w.SpeedMs; sw.TrueFromDeg = w.FromDeg;
-        sw.FromRad = Unit.DegToRad(w.FromDeg); (sw.FromSin, sw.FromCos) = Math.SinCos(sw.FromRad);
+        sw.FromRad = Unit.DegToRad(w.FromDeg); (sw.FromSin, sw.FromCos) = FastMath.SinCos(sw.FromRad);
         sw.RigSpeed = w.SpeedMs * _rig[b].GradientFactor(w.SpeedMs);
         if (first) { sw.PerceivedSpeed = w.SpeedMs; sw.PerceivedFromDeg = w.FromDeg; }
         else
@@ -106,6 +106,7 @@ public sealed partial class Race
         double beta = Unit.WrapRadPi(appFrom - track);
         t.TrueAngleRad = Unit.WrapRadPi(sw.FromRad - pose.Heading);
         t.ApparentSpeed = aws;
+        if (aws > 1e-9) { t.AppDownX = ax / aws; t.AppDownY = ay / aws; } else { t.AppDownX = double.NaN; t.AppDownY = double.NaN; }
         t.ApparentAngleRad = Unit.WrapRadPi(appFrom - pose.Heading);
         double absBeta = Math.Abs(beta);
         // Sheet: what the tactic wants, capped by the heel limit, followed with the rider's reaction lag (so a
@@ -166,11 +167,10 @@ public sealed partial class Race
 
     void IntegrateOne(int b, ref Pose p, ref Motion m, in Trim t, in Intent intent, in ManoeuvreState man)
     {
-        var rig = _rig[b];
         double v = m.Speed;
         double water = man.Kind == Manoeuvre.Fallen ? 0.5 * 1025 * v * v * Tuning.InWaterDragAreaM2 : 0;
         double net = t.Drive + t.PumpThrust - t.FinDrag - t.HullDrag - water;
-        v = Math.Max(0, v + Dt * net / rig.MassKg);
+        v = Math.Max(0, v + net * _dtOverMass[b]);
         m.Speed = v;
         // Yaw.
         double rate = YawRate(b, v, man);
@@ -181,10 +181,10 @@ public sealed partial class Race
         if (man.Kind is Manoeuvre.Tack or Manoeuvre.Gybe && man.Phase < 2) d = man.TurnSign * Math.PI; // keep turning the chosen way
         if (man.Kind == Manoeuvre.Fallen) d = 0;
         double turn = Math.Clamp(d, -rate * Dt, rate * Dt);
-        m.YawRate = turn / Dt;
+        m.YawRate = turn * _stepHz;
         p.Heading = Unit.WrapRadPi(p.Heading + turn);
         double track = p.Heading - side * m.Leeway;
-        (m.TrackSin, m.TrackCos) = Math.SinCos(track);
+        (m.TrackSin, m.TrackCos) = FastMath.SinCos(track);
         p.X += v * Dt * m.TrackSin;
         p.Y += v * Dt * m.TrackCos;
         if (Time >= 0) m.Distance += v * Dt;

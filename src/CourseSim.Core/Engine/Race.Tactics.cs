@@ -63,7 +63,7 @@ public sealed partial class Race
     void DecideOne(int b, in Pose pose, in SensedWind sw, ref Intent it, in RaceStatus st, in ManoeuvreState man, double speed)
     {
         if (Time < it.NextDecisionS) return;
-        it.NextDecisionS += Settings.DecisionIntervalS;
+        it.NextDecisionS += _decisionS;
         if (man.Kind != Manoeuvre.None) return; // busy: no new decision mid-manoeuvre
         var p = new Vec2(pose.X, pose.Y);
         double tws = sw.PerceivedSpeed, from = sw.PerceivedFromDeg;

@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using CourseSim.Courses;
 using CourseSim.Entities;
 using CourseSim.Random;
@@ -49,7 +51,8 @@ public sealed partial class Race
 
     readonly Entity[] _entities;
     readonly RigPolar[] _rigs;
-    readonly double[] _skill, _sheetGain, _crossYaw, _invCarveRadius, _restDecay;
+    readonly double[] _skill, _sheetGain, _crossYaw, _invCarveRadius, _restDecay, _dtOverMass;
+    readonly double _stepHz;
     readonly List<double>[] _splits;
     readonly Vec2[] _spot, _wait;
     readonly double[] _goMargin;
@@ -63,7 +66,8 @@ public sealed partial class Race
     int _sensePhase;
     readonly int[] _senseSlot;
     readonly RigDynamics[] _rig;
-    readonly bool _pumping;
+    readonly bool _pumping, _falls;
+    readonly double _fallsFromS, _decisionS;
     double _nextRecord;
 
     /// <summary>
@@ -73,6 +77,7 @@ public sealed partial class Race
     {
         Setup = setup;
         Dt = 1.0 / setup.Race.StepHz;
+        _stepHz = setup.Race.StepHz;
         _senseEvery = Math.Max(1, (int)Math.Round(setup.Race.StepHz / Math.Min(setup.Race.WindHz, setup.Race.StepHz)));
         Wind = new WindField(setup.Wind, setup.Race.Seed);
         Shadow = new WindShadow(setup.Wind);
@@ -82,7 +87,10 @@ public sealed partial class Race
         _rig = new RigDynamics[n];
         _senseSlot = new int[n];
         _pumping = setup.Race.Pumping;
-        _skill = new double[n]; _sheetGain = new double[n]; _crossYaw = new double[n]; _invCarveRadius = new double[n]; _restDecay = new double[n];
+        _falls = setup.Race.Falls;
+        _fallsFromS = -setup.Race.CountdownS + 5; // no falls in the first seconds, while the fleet gets going
+        _decisionS = setup.Race.DecisionIntervalS;
+        _skill = new double[n]; _sheetGain = new double[n]; _crossYaw = new double[n]; _invCarveRadius = new double[n]; _restDecay = new double[n]; _dtOverMass = new double[n];
         _splits = new List<double>[n];
         _spot = new Vec2[n]; _wait = new Vec2[n]; _goMargin = new double[n];
         _sources = new ShadowSource[n];
@@ -110,11 +118,12 @@ public sealed partial class Race
             _crossYaw[i] = Units.Unit.DegToRad(2 * Tuning.TackCrossStartDeg) / Tuning.Lerp(Tuning.TackCrossExpertS, Tuning.TackCrossNoviceS, _skill[i]);
             _invCarveRadius[i] = 1 / Tuning.Lerp(Tuning.CarveRadiusExpertM, Tuning.CarveRadiusNoviceM, _skill[i]);
             _restDecay[i] = _rig[i].Rider.RestingDecay(Dt);
+            _dtOverMass[i] = Dt / _rig[i].MassKg;
             _splits[i] = new List<double>();
             var e = World.Create(new BoardId { Value = i }, new Pose(), new Motion());
             World.Add(e, new RigRef { Index = i });
             World.Add(e, new SensedWind());
-            World.Add(e, new Trim());
+            World.Add(e, new Trim { AppDownX = double.NaN, AppDownY = double.NaN });
             World.Add(e, new RiderState { ReserveJ = _rigs[i].Rig.Physics.Rider.ReserveJ });
             World.Add(e, new Intent { Power = 0.5, NextDecisionS = Time + (i % 10) * 0.05 });
             World.Add(e, new ManoeuvreState());
@@ -172,15 +181,28 @@ public sealed partial class Race
             var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>(); var sw = chunk.Span<SensedWind>();
             var trim = chunk.Span<Trim>(); var rider = chunk.Span<RiderState>(); var intent = chunk.Span<Intent>();
             var man = chunk.Span<ManoeuvreState>(); var st = chunk.Span<RaceStatus>(); var ents = chunk.Entities;
-            for (int i = 0; i < ids.Length; i++)
+            // All columns of a chunk have its length: walk them by reference (no per-access bounds checks).
+            int count = ids.Length;
+            if (pose.Length != count || mo.Length != count || sw.Length != count || trim.Length != count || rider.Length != count
+                || intent.Length != count || man.Length != count || st.Length != count || ents.Length != count)
+                throw new InvalidOperationException("a chunk's columns differ in length");
+            ref var id0 = ref MemoryMarshal.GetReference(ids); ref var pose0 = ref MemoryMarshal.GetReference(pose);
+            ref var mo0 = ref MemoryMarshal.GetReference(mo); ref var sw0 = ref MemoryMarshal.GetReference(sw);
+            ref var trim0 = ref MemoryMarshal.GetReference(trim); ref var rider0 = ref MemoryMarshal.GetReference(rider);
+            ref var intent0 = ref MemoryMarshal.GetReference(intent); ref var man0 = ref MemoryMarshal.GetReference(man);
+            ref var st0 = ref MemoryMarshal.GetReference(st);
+            for (int i = 0; i < count; i++)
             {
-                int b = ids[i].Value;
-                SenseOne(b, phase, first, k, in pose[i], ref sw[i]);
-                DecideOne(b, in pose[i], in sw[i], ref intent[i], in st[i], in man[i], mo[i].Speed);
-                TrimOne(b, in pose[i], ref mo[i], in sw[i], ref trim[i], ref rider[i], in intent[i], in man[i]);
-                IntegrateOne(b, ref pose[i], ref mo[i], in trim[i], in intent[i], in man[i]);
-                ManoeuvreOne(b, ref pose[i], ref mo[i], in sw[i], ref trim[i], in intent[i], ref man[i], ref st[i]);
-                ProgressOne(b, ents[i], in pose[i], ref st[i]);
+                int b = Unsafe.Add(ref id0, i).Value;
+                ref var p = ref Unsafe.Add(ref pose0, i); ref var m = ref Unsafe.Add(ref mo0, i); ref var w = ref Unsafe.Add(ref sw0, i);
+                ref var t = ref Unsafe.Add(ref trim0, i); ref var r = ref Unsafe.Add(ref rider0, i); ref var it = ref Unsafe.Add(ref intent0, i);
+                ref var mn = ref Unsafe.Add(ref man0, i); ref var s = ref Unsafe.Add(ref st0, i);
+                SenseOne(b, phase, first, k, in p, ref w);
+                DecideOne(b, in p, in w, ref it, in s, in mn, m.Speed);
+                TrimOne(b, in p, ref m, in w, ref t, ref r, in it, in mn);
+                IntegrateOne(b, ref p, ref m, in t, in it, in mn);
+                ManoeuvreOne(b, ref p, ref m, in w, ref t, in it, ref mn, ref s);
+                ProgressOne(b, ents[i], in p, ref s);
             }
         }
     }

@@ -246,22 +246,30 @@ public sealed class RigDynamics
     public double FinSheetCap(double aws, double betaRad, double speed, double upper)
     {
         if (speed < BoardPhysics.SpinOutMinSpeed) return upper;
-        double cap = FinCapacity(speed);
-        double hiSide = Math.Abs(Sail(aws, betaRad, upper).Side);
-        if (hiSide <= cap) return upper;
-        // Side force grows smoothly with the sheet from its luffing value: regula falsi (Illinois variant) to 1e-4.
-        double lo = 0, hi = upper;
-        double fLo = Math.Abs(Sail(aws, betaRad, 0).Side) - cap, fHi = hiSide - cap;
-        if (fLo >= 0) return 0;
-        int side = 0;
-        for (int i = 0; i < 8 && hi - lo > 1e-4; i++)
+        double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
+        if (qa <= 0) return upper;
+        double target = FinCapacity(speed) / qa; // the largest side coefficient the fin holds
+        // Along f at this beta the table's side coefficient is piecewise linear (bilinear interpolation), so the sheet
+        // where it reaches the fin's limit is found exactly by walking the f columns.
+        double x = Math.Clamp(betaRad * (180 / Math.PI), 0, BetaSteps);
+        int i = Math.Min((int)x, BetaSteps - 1);
+        double fx = x - i;
+        const int nf = FSteps + 1;
+        int row0 = i * nf, row1 = row0 + nf;
+        double prev = Math.Abs((1 - fx) * _cells[row0].Side + fx * _cells[row1].Side);
+        if (prev > target) return 0;
+        int kMax = (int)Math.Min(FSteps, Math.Ceiling(Math.Clamp(upper, 0, 1) * FSteps));
+        for (int k = 1; k <= kMax; k++)
         {
-            double mid = lo - fLo * (hi - lo) / (fHi - fLo);
-            double fm = Math.Abs(Sail(aws, betaRad, mid).Side) - cap;
-            if (fm <= 0) { lo = mid; fLo = fm; if (side == -1) fHi *= 0.5; side = -1; }
-            else { hi = mid; fHi = fm; if (side == 1) fLo *= 0.5; side = 1; }
+            double cur = Math.Abs((1 - fx) * _cells[row0 + k].Side + fx * _cells[row1 + k].Side);
+            if (cur > target)
+            {
+                double f = (k - 1 + (target - prev) / (cur - prev)) / FSteps;
+                return Math.Min(f, upper);
+            }
+            prev = cur;
         }
-        return lo;
+        return upper;
     }
 
     /// <summary>

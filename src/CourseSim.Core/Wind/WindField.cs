@@ -108,7 +108,7 @@ public sealed class WindField
             double du = _sigmaU * _gu.At(a, b);
             double dv = 0.8 * _sigmaU * _gv!.At(a, b);
             double uu = Math.Max(u + du, 0);
-            dir += Unit.RadToDeg(Math.Atan2(dv, Math.Max(uu, 0.1)));
+            dir += Unit.RadToDeg(FastMath.Atan2(dv, Math.Max(uu, 0.1))); // to 1e-5 rad (6e-4 deg)
             u = Math.Sqrt(uu * uu + dv * dv);
         }
         return new WindSample(u, Unit.WrapDeg360(dir));

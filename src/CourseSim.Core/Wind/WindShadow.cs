@@ -2,8 +2,13 @@ using CourseSim.Units;
 
 namespace CourseSim.Wind;
 
-/// <summary>A sail that leaves a wake: where it is, which way its apparent wind blows, and its mast height.</summary>
-public readonly record struct ShadowSource(double X, double Y, double ApparentFromDeg, double MastHeightM, double WindSpeedMs);
+/// <summary>
+/// A sail that leaves a wake: where it is, which way its apparent wind comes from, its mast height and the wind speed.
+/// <see cref="DownX"/>, <see cref="DownY"/> may give the unit vector the apparent wind blows to (the race step has it
+/// already); left NaN, it is computed from <see cref="ApparentFromDeg"/>.
+/// </summary>
+public readonly record struct ShadowSource(double X, double Y, double ApparentFromDeg, double MastHeightM, double WindSpeedMs,
+    double DownX = double.NaN, double DownY = double.NaN);
 
 /// <summary>
 /// Wind shadows (docs/wind.md, "Wind shadow"). Each sail leaves a wake downstream along its apparent wind: a Jensen
@@ -26,7 +31,7 @@ public sealed class WindShadow
     struct Packed { public double X, Y, Dx, Dy, Len, FromDeg; public int Index, Ci, Cj; }
     Packed[] _packed = [];
     int _count, _mask;
-    double _cell;
+    double _cell, _invCell;
     readonly double _deficit, _headerMax, _r0, _spread;
 
     public WindShadow(WindSettings settings)
@@ -68,13 +73,17 @@ public sealed class WindShadow
         {
             var s = sources[i];
             _src[i] = s;
-            double r = Unit.DegToRad(s.ApparentFromDeg);
-            var (sn, cs) = Math.SinCos(r);
-            _dx[i] = -sn; _dy[i] = -cs; // the direction the apparent wind blows to
+            if (double.IsNaN(s.DownX) || double.IsNaN(s.DownY))
+            {
+                var (sn, cs) = Math.SinCos(Unit.DegToRad(s.ApparentFromDeg));
+                _dx[i] = -sn; _dy[i] = -cs; // the direction the apparent wind blows to
+            }
+            else { _dx[i] = s.DownX; _dy[i] = s.DownY; }
             _len[i] = WakeLength(s.MastHeightM, s.WindSpeedMs);
             maxLen = Math.Max(maxLen, _len[i]);
         }
         _cell = maxLen;
+        _invCell = 1 / maxLen;
         for (int i = 0; i < _count; i++) _bucketStart[Hash(CellIndex(_src[i].X), CellIndex(_src[i].Y), _mask) + 1]++;
         for (int b = 0; b < buckets; b++) _bucketStart[b + 1] += _bucketStart[b];
         for (int i = 0; i < _count; i++)
@@ -88,7 +97,7 @@ public sealed class WindShadow
         }
     }
 
-    int CellIndex(double v) => (int)Math.Floor(Math.Clamp(v / _cell, -1e9, 1e9));
+    int CellIndex(double v) => (int)Math.Floor(Math.Clamp(v * _invCell, -1e9, 1e9));
 
     /// <summary>Applies the shadows of all sources except <paramref name="exclude"/> at (x, y) to a free-stream sample.</summary>
     public WindSample Apply(WindSample free, double x, double y, int exclude = -1)
