@@ -197,8 +197,9 @@ public sealed partial class Race
                 ref var p = ref Unsafe.Add(ref pose0, i); ref var m = ref Unsafe.Add(ref mo0, i); ref var w = ref Unsafe.Add(ref sw0, i);
                 ref var t = ref Unsafe.Add(ref trim0, i); ref var r = ref Unsafe.Add(ref rider0, i); ref var it = ref Unsafe.Add(ref intent0, i);
                 ref var mn = ref Unsafe.Add(ref man0, i); ref var s = ref Unsafe.Add(ref st0, i);
-                SenseOne(b, phase, first, k, in p, ref w);
-                DecideOne(b, in p, in w, ref it, in s, in mn, m.Speed);
+                // The guards of SenseOne and DecideOne, here, so the boards not due this step make no call.
+                if (first || _senseSlot[b] == phase) SenseOne(b, phase, first, k, in p, ref w);
+                if (Time >= it.NextDecisionS) DecideOne(b, in p, in w, ref it, in s, in mn, m.Speed);
                 TrimOne(b, in p, ref m, in w, ref t, ref r, in it, in mn);
                 IntegrateOne(b, ref p, ref m, in t, in it, in mn);
                 ManoeuvreOne(b, ref p, ref m, in w, ref t, in it, ref mn, ref s);
