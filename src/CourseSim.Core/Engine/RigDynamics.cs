@@ -121,6 +121,7 @@ public sealed class RigDynamics
     }
 
     /// <summary>Ratio of wind at the rig's centre of effort to the 10 m wind (log law, tabulated).</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public double GradientFactor(double u10)
     {
         double x = Math.Clamp(u10, 0, GradientMax) / GradientStep;
@@ -147,6 +148,7 @@ public sealed class RigDynamics
     /// The step's trim in one pass: the rider's sheet moves by <paramref name="gain"/> (0..1) of the way from
     /// <paramref name="sheet"/> towards the wanted power capped by the heel limit; returns the sail force at the new sheet.
     /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public SailForce Trim(double aws, double betaRad, double wantPower, ref double sheet, double gain)
     {
         double x = Math.Clamp(betaRad * (180 / Math.PI), 0, BetaSteps);
@@ -214,6 +216,7 @@ public sealed class RigDynamics
     /// saturated-fin rule of <see cref="BoardPhysics.Evaluate(in ApparentWind, double, double)"/>; spun is true when the fin
     /// ventilates at speed.
     /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public double Fin(double side, double speed, out double leewayRad, out bool spun)
     {
         double x = Math.Clamp(speed, 0, FinMax) / FinStep;
@@ -237,6 +240,7 @@ public sealed class RigDynamics
     }
 
     /// <summary>Largest side force (N) the fin carries at water speed V before it ventilates.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public double FinCapacity(double speed) => _finMaxLift * _finQ * speed * speed;
 
     /// <summary>

@@ -110,6 +110,7 @@ public sealed class HullModel
     }
 
     /// <summary>Resistance (N) and lift fraction at speed V (m/s) from the table in single precision: the race step's fast path of <see cref="At"/>.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public double ResistanceAt(double speed, out double liftFraction)
     {
         double x = Math.Clamp(speed, 0, TableMax) / TableStep;
