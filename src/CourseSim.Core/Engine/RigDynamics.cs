@@ -260,20 +260,16 @@ public sealed class RigDynamics
         double fx = x - i;
         const int nf = FSteps + 1;
         int row0 = i * nf, row1 = row0 + nf;
-        double prev = Math.Abs((1 - fx) * _cells[row0].Side + fx * _cells[row1].Side);
-        if (prev > target) return 0;
-        int kMax = (int)Math.Min(FSteps, Math.Ceiling(Math.Clamp(upper, 0, 1) * FSteps));
-        for (int k = 1; k <= kMax; k++)
-        {
-            double cur = Math.Abs((1 - fx) * _cells[row0 + k].Side + fx * _cells[row1 + k].Side);
-            if (cur > target)
-            {
-                double f = (k - 1 + (target - prev) / (cur - prev)) / FSteps;
-                return Math.Min(f, upper);
-            }
-            prev = cur;
-        }
-        return upper;
+        double Side(int kk) => Math.Abs((1 - fx) * _cells[row0 + kk].Side + fx * _cells[row1 + kk].Side);
+        if (Side(0) > target) return 0;
+        // Start from the column of the sheet held (the answer is usually a column or two away) and walk to the crossing.
+        int k = (int)Math.Clamp(Math.Ceiling(Math.Clamp(upper, 0, 1) * FSteps), 1, FSteps);
+        while (k > 1 && Side(k - 1) > target) k--;
+        while (k < FSteps && Side(k) <= target) k++;
+        double lo = Side(k - 1), hi = Side(k);
+        if (hi <= target) return upper;
+        double f = (k - 1 + (target - lo) / (hi - lo)) / FSteps;
+        return Math.Min(f, upper);
     }
 
     /// <summary>
