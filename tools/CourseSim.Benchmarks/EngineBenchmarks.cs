@@ -117,7 +117,10 @@ public static class Report
             var race = Fleets.Make(n);
             while (race.Time < 30) race.Step();
             int steps = Math.Clamp(1_000_000 / n, 200, 40_000);
-            for (int i = 0; i < steps / 4; i++) race.Step(); // warm
+            // Warm up well past the runtime's tiering (dynamic PGO recompiles the hot methods after their first calls),
+            // on a throw-away race so the measured one starts fresh.
+            var warmup = Fleets.Make(n);
+            for (int i = 0; i < 3 * steps && !warmup.IsOver; i++) warmup.Step();
             // The real step (one fused pass per board), five stretches: this VM is shared, so best and median are shown.
             var runs = new List<double>();
             for (int r = 0; r < 5; r++)
