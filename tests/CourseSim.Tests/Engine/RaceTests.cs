@@ -99,6 +99,27 @@ public class RaceTests
         Assert.All(fin, b => Assert.Equal(setup.Course.Steps.Count, b.SplitsS.Count));
     }
 
+    [Theory]
+    [InlineData("kind = \"slalom\"\nslalom_marks = 4\n", 18.0)]
+    [InlineData("kind = \"windward-leeward\"\nlaps = 2\nbeat_m = 600\n", 12.0)]
+    [InlineData("kind = \"trapezoid\"\nloop = \"inner\"\nlaps = 2\nbeat_m = 600\nreach_m = 350\nrun_m = 500\n", 14.0)]
+    [InlineData("kind = \"waypoints\"\norder = \"n e s fin\"\n[course.marks.n]\nx_m = 0\ny_m = 900\n[course.marks.e]\nx_m = 900\ny_m = 900\nrounding = \"starboard\"\n[course.marks.s]\nx_m = 900\ny_m = 0\n[course.marks.fin]\nx_m = 200\ny_m = -150\n", 12.0)]
+    public void EveryCourseKindIsSailedToTheFinishInTheRightOrder(string course, double kn)
+    {
+        var setup = EngineTestKit.Parse(EngineTestKit.SteadyWind(kn) + "[race]\ntime_limit_s = 3600\n[course]\n" + course +
+            $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n[boards.b]\nequipment = \"{EngineTestKit.Equip("heavy-86.toml")}\"\n");
+        var race = new Race(setup);
+        var res = race.Run();
+        Assert.All(res.Boards, b => Assert.True(b.Finished, $"{b.Name} did not finish {setup.Course.Kind}"));
+        Assert.All(res.Boards, b => Assert.Equal(setup.Course.Steps.Count, b.SplitsS.Count));
+        // Every rounding event names the steps in course order.
+        foreach (var b in res.Boards)
+        {
+            var names = res.Events.Where(e => e.Board == b.Board && e.Kind == RaceEventKind.Rounded).Select(e => e.Detail).ToList();
+            Assert.Equal(setup.Course.Steps.Take(setup.Course.Steps.Count - 1).Select(s => s.Name), names);
+        }
+    }
+
     [Fact]
     public void ATimeLimitEndsTheRaceAndRecordsTheUnfinished()
     {
