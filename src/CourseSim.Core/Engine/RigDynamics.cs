@@ -31,6 +31,7 @@ public sealed class RigDynamics
     public double CentreOfEffortM { get; }
     public double MaxHeelingMomentNm { get; }
     public double MastHeightM { get; }
+    readonly double _ceOverMaxHeel;
     /// <summary>The hull and rider models (shortcuts used by the race step).</summary>
     public Hull.HullModel Hull { get; }
     public Rider.RiderModel Rider { get; }
@@ -57,6 +58,7 @@ public sealed class RigDynamics
         CentreOfEffortM = Physics.Sail.CentreOfEffortM;
         MaxHeelingMomentNm = Physics.Rider.MaxHeelingMomentNm;
         MastHeightM = Physics.Sail.LuffM + BoardPhysics.DeckHeightM;
+        _ceOverMaxHeel = CentreOfEffortM / MaxHeelingMomentNm;
         _rhoAir = Physics.AirDensity; _rhoWater = Physics.WaterDensity; _nu = Physics.WaterViscosity;
         int nb = BetaSteps + 1, nf = FSteps + 1;
         _cells = new Cell[nb * nf];
@@ -124,7 +126,7 @@ public sealed class RigDynamics
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public double GradientFactor(double u10)
     {
-        double x = Math.Clamp(u10, 0, GradientMax) / GradientStep;
+        double x = Math.Clamp(u10, 0, GradientMax) * (1 / GradientStep);
         int i = Math.Min((int)x, _gradient.Length - 2);
         return _gradient[i] + (x - i) * (_gradient[i + 1] - _gradient[i]);
     }
@@ -173,7 +175,7 @@ public sealed class RigDynamics
         double cd = w00 * c00.Drive + w01 * c01.Drive + w10 * c10.Drive + w11 * c11.Drive;
         double cs = w00 * c00.Side + w01 * c01.Side + w10 * c10.Side + w11 * c11.Side;
         double css = w00 * c00.SailSide + w01 * c01.SailSide + w10 * c10.SailSide + w11 * c11.SailSide;
-        return new SailForce(qa * cd, qa * cs, qa * css * CentreOfEffortM / MaxHeelingMomentNm, f);
+        return new SailForce(qa * cd, qa * cs, qa * css * _ceOverMaxHeel, f);
     }
 
     /// <summary>Sail force at apparent wind speed (m/s) and angle beta (rad, 0..pi) with sheet fraction f (0..1).</summary>
@@ -194,7 +196,7 @@ public sealed class RigDynamics
         double cs = w00 * c00.Side + w01 * c01.Side + w10 * c10.Side + w11 * c11.Side;
         double css = w00 * c00.SailSide + w01 * c01.SailSide + w10 * c10.SailSide + w11 * c11.SailSide;
         double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
-        return new SailForce(qa * cd, qa * cs, qa * css * CentreOfEffortM / MaxHeelingMomentNm, f);
+        return new SailForce(qa * cd, qa * cs, qa * css * _ceOverMaxHeel, f);
     }
 
     /// <summary>The rider's attack angle (rad) at apparent wind angle beta (rad, 0..pi) and sheet fraction f.</summary>
@@ -219,7 +221,7 @@ public sealed class RigDynamics
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public double Fin(double side, double speed, out double leewayRad, out bool spun)
     {
-        double x = Math.Clamp(speed, 0, FinMax) / FinStep;
+        double x = Math.Clamp(speed, 0, FinMax) * (1 / FinStep);
         int i = Math.Min((int)x, _finProfile.Length - 2);
         double cd0 = _finProfile[i] + (x - i) * (_finProfile[i + 1] - _finProfile[i]);
         double qf = _finQ * speed * speed;
@@ -232,7 +234,7 @@ public sealed class RigDynamics
         {
             // Saturated fin: it carries its maximum, the rails carry the rest at a poor lift-to-drag ratio.
             spun = speed >= BoardPhysics.SpinOutMinSpeed;
-            drag = qf * (cd0 + _finInduced * _finMaxLift * _finMaxLift) + (abs - _finMaxLift * qf) / BoardPhysics.HullSideLiftToDrag;
+            drag = qf * (cd0 + _finInduced * _finMaxLift * _finMaxLift) + (abs - _finMaxLift * qf) * (1 / BoardPhysics.HullSideLiftToDrag);
         }
         else drag = qf * (cd0 + _finInduced * cl * cl);
         leewayRad = Math.Min(cl * _finInvSlope, _finLeewayCap);

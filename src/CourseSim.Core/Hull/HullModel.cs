@@ -113,7 +113,7 @@ public sealed class HullModel
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public double ResistanceAt(double speed, out double liftFraction)
     {
-        double x = Math.Clamp(speed, 0, TableMax) / TableStep;
+        double x = Math.Clamp(speed, 0, TableMax) * (1 / TableStep);
         int i = Math.Min((int)x, _table.Length - 2);
         double f = x - i;
         int j = 2 * i;
@@ -124,7 +124,7 @@ public sealed class HullModel
     /// <summary>Hull state at speed V (m/s), interpolated from the table (clamped to 0..40 m/s).</summary>
     public HullState At(double speed)
     {
-        double x = Math.Clamp(speed, 0, TableMax) / TableStep;
+        double x = Math.Clamp(speed, 0, TableMax) * (1 / TableStep);
         int i = Math.Min((int)x, _table.Length - 2);
         double f = x - i;
         var a = _table[i]; var b = _table[i + 1];

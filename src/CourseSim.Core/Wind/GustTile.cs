@@ -19,12 +19,14 @@ public sealed class GustTile
     public int Size { get; }
     public double SpacingM { get; }
     readonly float[] _v;
+    readonly double _invSpacing;
 
     public GustTile(double integralLengthM, CounterRng rng, int size = 512, int pointsPerScale = 8)
     {
         Size = size;
         double l = integralLengthM / IntegralToScale;
         SpacingM = l / pointsPerScale;
+        _invSpacing = 1 / SpacingM;
         var c = new Complex[size * size];
         double dk = 2 * Math.PI / (size * SpacingM);
         double resolved = 0;
@@ -71,7 +73,7 @@ public sealed class GustTile
     /// <summary>Value at (a, b) metres in tile coordinates, periodic, bilinear.</summary>
     public double At(double a, double b)
     {
-        double x = a / SpacingM, y = b / SpacingM;
+        double x = a * _invSpacing, y = b * _invSpacing;
         double fx = Math.Floor(x), fy = Math.Floor(y);
         double tx = x - fx, ty = y - fy;
         int n = Size, mask = n - 1;

@@ -29,7 +29,7 @@ public sealed class WindField
     readonly double _u0, _ramp, _dirRad, _ex, _ey, _nx, _ny, _ca, _sa;
     readonly double[] _shiftFreq, _shiftAmp, _shiftPhase;
     readonly GustTile? _gu, _gv;
-    readonly double _sigmaU;
+    readonly double _sigmaU, _invU0;
     // The oscillating shift tabulated every 0.5 s over advected times -2 h .. +6 h (the sum of sines dominates a sample's
     // cost); outside the table it is computed directly. Linear interpolation error is below 0.01 deg for periods over 60 s.
     const double ShiftTableStep = 0.5, ShiftTableStart = -7200, ShiftTableEnd = 21600;
@@ -56,6 +56,7 @@ public sealed class WindField
             _shiftPhase[i] = 2 * Math.PI * rng.Uniform((ulong)(3 * i + 1));
         }
         _sigmaU = s.GustIntensity * _u0;
+        _invU0 = _u0 > 0 ? 1 / _u0 : 0;
         _shiftTable = new float[(int)((ShiftTableEnd - ShiftTableStart) / ShiftTableStep) + 2];
         for (int i = 0; i < _shiftTable.Length; i++) _shiftTable[i] = (float)OscillatingShift(ShiftTableStart + i * ShiftTableStep);
         if (s.GustIntensity > 0)
@@ -79,7 +80,7 @@ public sealed class WindField
 
     double TabulatedShift(double tau)
     {
-        double x = (tau - ShiftTableStart) / ShiftTableStep;
+        double x = (tau - ShiftTableStart) * (1 / ShiftTableStep);
         if (x < 0 || x >= _shiftTable.Length - 1) return OscillatingShift(tau);
         int i = (int)x; double f = x - i;
         return _shiftTable[i] + f * (_shiftTable[i + 1] - _shiftTable[i]);
@@ -95,10 +96,10 @@ public sealed class WindField
         double cross = x * _nx + y * _ny;      // to the right looking downwind
         // Patterns travel downwind at the starting mean speed: a point 'along' metres downwind sees at t what the origin saw at t - along/U.
         double adv = _u0 > 0.1 ? _u0 : 0.1;
-        double tau = t - along / adv;
-        double dir = s.DirectionDeg + TabulatedShift(tau) + s.PersistentDegPerMin * tau / 60.0
-                     + s.BendDeg * Math.Clamp(-cross / BendWidthM, -0.5, 0.5);
-        double u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (-cross / 1000.0);
+        double tau = t - along * (adv == _u0 ? _invU0 : 1 / adv);
+        double dir = s.DirectionDeg + TabulatedShift(tau) + s.PersistentDegPerMin * tau * (1 / 60.0)
+                     + s.BendDeg * Math.Clamp(-cross * (1 / BendWidthM), -0.5, 0.5);
+        double u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (-cross * 0.001);
         if (s.BandAmplitudeKn != 0) u += Unit.KnotsToMs(s.BandAmplitudeKn) * Math.Sin(2 * Math.PI * (along - adv * t) / s.BandSpacingM);
         u = Math.Max(u, 0);
         if (_gu is not null)
