@@ -28,7 +28,7 @@ public sealed class WindShadow
     // so building costs O(N) however far the fleet spreads (a dense grid over the fleet's box would grow with its area).
     int[] _bucketStart = [], _fill = [];
     // The sources in bucket order, packed so a look-up walks contiguous memory; each keeps its cell to reject hash collisions.
-    struct Packed { public double X, Y, Dx, Dy, Len, FromDeg; public int Index, Ci, Cj; }
+    struct Packed { public double X, Y, Dx, Dy, Len, InvLen, FromDeg; public int Index, Ci, Cj; }
     Packed[] _packed = [];
     int _count, _mask;
     double _cell, _invCell;
@@ -92,7 +92,7 @@ public sealed class WindShadow
             int b = Hash(ci, cj, _mask);
             _packed[_bucketStart[b] + _fill[b]++] = new Packed
             {
-                X = _src[i].X, Y = _src[i].Y, Dx = _dx[i], Dy = _dy[i], Len = _len[i], FromDeg = _src[i].ApparentFromDeg, Index = i, Ci = ci, Cj = cj,
+                X = _src[i].X, Y = _src[i].Y, Dx = _dx[i], Dy = _dy[i], Len = _len[i], InvLen = 1 / _len[i], FromDeg = _src[i].ApparentFromDeg, Index = i, Ci = ci, Cj = cj,
             };
         }
     }
@@ -121,7 +121,7 @@ public sealed class WindShadow
                     double r = _r0 + _spread * along;
                     if (lateral > r) continue;
                     double q = _r0 / r;
-                    double w = q * q * (1 - along / p.Len);
+                    double w = q * q * (1 - along * p.InvLen);
                     if (w <= 0) continue;
                     factor *= 1 - _deficit * w;
                     // Turn the air towards the source's apparent wind direction.
