@@ -7,7 +7,9 @@ public static class Unit
     public const double MetresPerSecondPerKnot = 1852.0 / 3600.0;
 
     public static double KnotsToMs(double kn) => kn * MetresPerSecondPerKnot;
-    public static double MsToKnots(double ms) => ms / MetresPerSecondPerKnot;
+    public static double MsToKnots(double ms) => ms * KnotsPerMetrePerSecond;
+    /// <summary>3600 / 1852 knots in one metre per second.</summary>
+    public const double KnotsPerMetrePerSecond = 3600.0 / 1852.0;
     public static double DegToRad(double deg) => deg * (Math.PI / 180.0);
     public static double RadToDeg(double rad) => rad * (180.0 / Math.PI);
 
