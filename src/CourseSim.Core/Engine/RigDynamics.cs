@@ -163,7 +163,13 @@ public sealed class RigDynamics
         double want = Math.Min(wantPower, cap);
         double f = sheet + gain * (want - sheet);
         sheet = f;
-        // The bilinear look-up of Sail, sharing the beta index.
+        return Lookup(i, fx, f, qa);
+    }
+
+    /// <summary>The bilinear look-up of the trim table at beta row i (+fx) and sheet f, scaled by q A.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    SailForce Lookup(int i, double fx, double f, double qa)
+    {
         double y = Math.Clamp(f, 0, 1) * FSteps;
         int k = Math.Min((int)y, FSteps - 1);
         double fy = y - k;
@@ -183,21 +189,9 @@ public sealed class RigDynamics
     {
         double x = Math.Clamp(Unit.RadToDeg(betaRad), 0, BetaSteps);
         int i = Math.Min((int)x, BetaSteps - 1);
-        double fx = x - i;
-        double y = Math.Clamp(f, 0, 1) * FSteps;
-        int k = Math.Min((int)y, FSteps - 1);
-        double fy = y - k;
-        const int nf = FSteps + 1;
-        int j00 = i * nf + k, j10 = j00 + nf;
-        double w00 = (1 - fx) * (1 - fy), w01 = (1 - fx) * fy, w10 = fx * (1 - fy), w11 = fx * fy;
-        ref readonly var c00 = ref _cells[j00]; ref readonly var c01 = ref _cells[j00 + 1];
-        ref readonly var c10 = ref _cells[j10]; ref readonly var c11 = ref _cells[j10 + 1];
-        double cd = w00 * c00.Drive + w01 * c01.Drive + w10 * c10.Drive + w11 * c11.Drive;
-        double cs = w00 * c00.Side + w01 * c01.Side + w10 * c10.Side + w11 * c11.Side;
-        double css = w00 * c00.SailSide + w01 * c01.SailSide + w10 * c10.SailSide + w11 * c11.SailSide;
-        double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
-        return new SailForce(qa * cd, qa * cs, qa * css * _ceOverMaxHeel, f);
+        return Lookup(i, x - i, f, 0.5 * _rhoAir * aws * aws * SailAreaM2);
     }
+
 
     /// <summary>The rider's attack angle (rad) at apparent wind angle beta (rad, 0..pi) and sheet fraction f.</summary>
     public double AttackAngle(double betaRad, double f)
