@@ -45,6 +45,7 @@ public static class RaceCommand
         }
         var console = Terminal.For(stdout);
         console.Write(ResultsTable(race, result, name));
+        console.MarkupLine("[grey]T/G/F: tacks, gybes, falls. km: distance sailed from the signal. Legs from the signal.[/]");
         int unfinished = result.Boards.Count(b => !b.Finished);
         long boardSteps = race.StepIndex * race.BoardCount;
         console.MarkupLine(Markup.Escape($"{result.Boards.Count - unfinished} of {result.Boards.Count} finished; seed {race.Seed}; " +
@@ -86,30 +87,37 @@ public static class RaceCommand
     {
         var t = new Table().Border(TableBorder.Simple)
             .Title($"[bold]{Markup.Escape(name)}[/]: {Markup.Escape(race.Course.Kind)}, {race.BoardCount} boards, seed {race.Seed}");
-        t.AddColumn(new TableColumn("place").RightAligned()); t.AddColumn("board"); t.AddColumn(new TableColumn("elapsed").RightAligned());
-        t.AddColumn(new TableColumn("gap").RightAligned()); t.AddColumn("legs"); t.AddColumn(new TableColumn("sailed km").RightAligned());
-        t.AddColumn(new TableColumn("avg kn").RightAligned()); t.AddColumn(new TableColumn("tacks").RightAligned());
-        t.AddColumn(new TableColumn("gybes").RightAligned()); t.AddColumn(new TableColumn("falls").RightAligned()); t.AddColumn("notes");
+        (string Header, bool Right)[] columns = [("place", true), ("board", false), ("elapsed", true), ("gap", true), ("legs (m:ss)", false),
+            ("km", true), ("avg kn", true), ("T/G/F", true), ("notes", false)];
+        var rows = new List<string[]>();
         foreach (var b in result.ByPlace)
         {
             var notes = new List<string>();
             if (!b.Finished) notes.Add("did not finish");
-            if (b.Ocs) notes.Add("early start, returned");
+            if (b.Ocs) notes.Add("early start");
             if (b.WrongSide > 0) notes.Add($"wrong side x{b.WrongSide}");
-            t.AddRow(b.Place?.ToString(CultureInfo.InvariantCulture) ?? "-", Markup.Escape(b.Name), b.ElapsedS is double e ? Clock(e) : "-",
+            rows.Add([b.Place?.ToString(CultureInfo.InvariantCulture) ?? "-", b.Name, b.ElapsedS is double e ? Clock(e) : "-",
                 b.GapS is double g ? "+" + Clock(g) : "-", Legs(b.SplitsS), F(b.DistanceM / 1000, "0.00"), F(b.AverageSpeedMs / 0.514444, "0.0"),
-                b.Tacks.ToString(CultureInfo.InvariantCulture), b.Gybes.ToString(CultureInfo.InvariantCulture), b.Falls.ToString(CultureInfo.InvariantCulture),
-                Markup.Escape(string.Join("; ", notes)));
+                string.Create(CultureInfo.InvariantCulture, $"{b.Tacks}/{b.Gybes}/{b.Falls}"), string.Join("; ", notes)]);
         }
+        // Fixed widths from the contents, so the table keeps every value on one line when it fits the terminal.
+        for (int c = 0; c < columns.Length; c++)
+        {
+            int width = Math.Max(columns[c].Header.Length, rows.Count == 0 ? 0 : rows.Max(r => r[c].Length));
+            var col = new TableColumn(columns[c].Header).NoWrap().Width(Math.Max(1, width));
+            t.AddColumn(columns[c].Right ? col.RightAligned() : col);
+        }
+        foreach (var r in rows) t.AddRow(r.Select(Markup.Escape).ToArray());
         return t;
     }
+
 
     /// <summary>Leg times from the split times (the first leg from the signal).</summary>
     static string Legs(IReadOnlyList<double> splits)
     {
         var parts = new List<string>();
         double prev = 0;
-        foreach (var s in splits) { parts.Add(Clock(s - prev)); prev = s; }
+        foreach (var s in splits) { parts.Add(Short(s - prev)); prev = s; }
         return string.Join(" ", parts);
     }
 
@@ -122,6 +130,13 @@ public static class RaceCommand
     }
 
     static string F(double v, string fmt) => v.ToString(fmt, CultureInfo.InvariantCulture);
+
+    /// <summary>A leg time to the second, m:ss (the table's legs column; results.csv keeps the decimals).</summary>
+    static string Short(double s)
+    {
+        long whole = (long)Math.Round(s);
+        return $"{whole / 60}:{whole % 60:00}";
+    }
 
     static List<string> Write(string dir, Race race, RaceResult result)
     {
