@@ -65,3 +65,25 @@ public class RaceCliTests
         Assert.Equal(2, Run("race", Path.Combine(dir, "missing.toml")).code);
     }
 }
+
+public class BatchCliTests
+{
+    [Fact]
+    public void BatchWritesResultsAndTheDocumentedSummaryFields()
+    {
+        string dir = Directory.CreateTempSubdirectory("cs-batchcli-").FullName;
+        var o = new StringWriter(); var e = new StringWriter();
+        string exp = Path.Combine(RepoRoot.Path, "scenarios", "experiments", "maren-sail-size.toml");
+        int code = CourseSim.Cli.Program.Run(["batch", exp, "--races", "3", "--threads", "2", "--out", dir], o, e);
+        Assert.True(code == 0, e.ToString());
+        Assert.Contains("batch: 6/6 races", e.ToString());
+        using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(dir, "summary.json")));
+        var v = doc.RootElement.GetProperty("variants");
+        Assert.Equal(2, v.GetArrayLength());
+        foreach (var name in new[] { "name", "races", "mean_elapsed_s", "win_share" }) Assert.True(v[0].TryGetProperty(name, out _), name);
+        var p = doc.RootElement.GetProperty("pairs")[0];
+        foreach (var name in new[] { "a", "b", "mean_diff_s", "ci_low_s", "ci_high_s", "significant" }) Assert.True(p.TryGetProperty(name, out _), name);
+        Assert.Equal(1 + 2 * 3 * 12, File.ReadAllLines(Path.Combine(dir, "results.csv")).Length);
+        Assert.Equal(2, CourseSim.Cli.Program.Run(["batch", exp, "--races", "0"], new StringWriter(), new StringWriter()));
+    }
+}

@@ -1,0 +1,125 @@
+using System.Globalization;
+using System.Text;
+using CourseSim.Engine;
+
+namespace CourseSim.Experiments;
+
+/// <summary>One board in one race of one variant: a row of results.csv.</summary>
+public sealed record RaceRow(string Variant, int Race, ulong Seed, string BoardId, string Name, int? Place, bool Finished, double? ElapsedS,
+    double DistanceM, int Tacks, int Gybes, int Falls, bool Ocs, double DurationS)
+{
+    public const string Header = "variant,race,seed,board,name,place,finished,elapsed_s,distance_m,tacks,gybes,falls,ocs,race_duration_s";
+
+    public string ToCsv() => string.Join(',', Csv(Variant), Race.ToString(CultureInfo.InvariantCulture), Seed.ToString(CultureInfo.InvariantCulture),
+        Csv(BoardId), Csv(Name), Place?.ToString(CultureInfo.InvariantCulture) ?? "", Finished ? "true" : "false", N(ElapsedS), N(DistanceM),
+        Tacks.ToString(CultureInfo.InvariantCulture), Gybes.ToString(CultureInfo.InvariantCulture), Falls.ToString(CultureInfo.InvariantCulture),
+        Ocs ? "true" : "false", N(DurationS));
+
+    public static RaceRow Parse(string line, string source, int lineNo)
+    {
+        var p = SplitCsv(line);
+        if (p.Count != 14) throw new InvalidDataException($"{source}:{lineNo}: expected 14 fields, found {p.Count}");
+        static double? D(string s) => s.Length == 0 ? null : double.Parse(s, CultureInfo.InvariantCulture);
+        return new RaceRow(p[0], int.Parse(p[1], CultureInfo.InvariantCulture), ulong.Parse(p[2], CultureInfo.InvariantCulture), p[3], p[4],
+            p[5].Length == 0 ? null : int.Parse(p[5], CultureInfo.InvariantCulture), p[6] == "true", D(p[7]), D(p[8]) ?? 0,
+            int.Parse(p[9], CultureInfo.InvariantCulture), int.Parse(p[10], CultureInfo.InvariantCulture), int.Parse(p[11], CultureInfo.InvariantCulture),
+            p[12] == "true", D(p[13]) ?? 0);
+    }
+
+    static string N(double? v) => v is double d ? Math.Round(d, 3).ToString("0.###", CultureInfo.InvariantCulture) : "";
+    static string Csv(string s) => s.IndexOfAny([',', '"', '\n', '\r']) >= 0 ? "\"" + s.Replace("\"", "\"\"") + "\"" : s;
+
+    static List<string> SplitCsv(string line)
+    {
+        var parts = new List<string>();
+        var sb = new StringBuilder();
+        bool quoted = false;
+        for (int i = 0; i < line.Length; i++)
+        {
+            char c = line[i];
+            if (quoted)
+            {
+                if (c == '"' && i + 1 < line.Length && line[i + 1] == '"') { sb.Append('"'); i++; }
+                else if (c == '"') quoted = false;
+                else sb.Append(c);
+            }
+            else if (c == '"') quoted = true;
+            else if (c == ',') { parts.Add(sb.ToString()); sb.Clear(); }
+            else sb.Append(c);
+        }
+        parts.Add(sb.ToString());
+        return parts;
+    }
+}
+
+/// <summary>Progress of a batch: races done of the total, and how many were already on disk when it started.</summary>
+public readonly record struct BatchProgress(int Done, int Total, int Resumed);
+
+/// <summary>
+/// Runs an experiment's races (groundwork for the experiments issue): every (variant, race) in parallel across
+/// <c>threads</c> workers, each race single-threaded and deterministic. Each finished race is written at once to its
+/// own file under DIR/runs/ (atomically), so an interrupted batch loses nothing and a resumed one skips what is there;
+/// the results are read back in (variant, race) order, so they are the same whatever the thread count.
+/// </summary>
+public static class BatchRunner
+{
+    public static string RunFile(string outDir, string variant, int race) => Path.Combine(outDir, "runs", variant, $"{race:D6}.csv");
+
+    /// <summary>Runs what is missing; returns the rows of every finished race, in order. Cancelling stops after the races under way.</summary>
+    public static IReadOnlyList<RaceRow> Run(ExperimentSpec spec, string outDir, int threads, bool resume, Action<BatchProgress>? progress = null,
+        CancellationToken cancel = default)
+    {
+        var jobs = new List<(Variant V, int Race)>();
+        foreach (var v in spec.Variants)
+        {
+            Directory.CreateDirectory(Path.Combine(outDir, "runs", v.Name));
+            for (int i = 0; i < spec.Races; i++) jobs.Add((v, i));
+        }
+        var todo = jobs.Where(j => !(resume && File.Exists(RunFile(outDir, j.V.Name, j.Race)))).ToList();
+        if (!resume)
+            foreach (var j in jobs) { var f = RunFile(outDir, j.V.Name, j.Race); if (File.Exists(f)) File.Delete(f); }
+        int resumed = jobs.Count - todo.Count, done = resumed;
+        progress?.Invoke(new BatchProgress(done, jobs.Count, resumed));
+        var options = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads), CancellationToken = cancel };
+        try
+        {
+            Parallel.ForEach(todo, options, job =>
+            {
+                ulong seed = ExperimentFile.RaceSeed(spec.MasterSeed, job.Race);
+                var setup = job.V.Setup with { Race = job.V.Setup.Race with { Seed = seed } };
+                var race = new Race(setup);
+                var result = race.Run();
+                var sb = new StringBuilder();
+                foreach (var b in result.Boards)
+                {
+                    var row = new RaceRow(job.V.Name, job.Race, seed, setup.Boards[b.Board].Id, b.Name, b.Place, b.Finished, b.ElapsedS, b.DistanceM,
+                        b.Tacks, b.Gybes, b.Falls, b.Ocs, result.DurationS);
+                    sb.Append(row.ToCsv()).Append('\n');
+                }
+                var file = RunFile(outDir, job.V.Name, job.Race);
+                File.WriteAllText(file + ".tmp", sb.ToString());
+                File.Move(file + ".tmp", file, true);
+                int d = Interlocked.Increment(ref done);
+                progress?.Invoke(new BatchProgress(d, jobs.Count, resumed));
+            });
+        }
+        catch (OperationCanceledException) { /* report what finished */ }
+        var rows = new List<RaceRow>();
+        foreach (var j in jobs)
+        {
+            var file = RunFile(outDir, j.V.Name, j.Race);
+            if (!File.Exists(file)) continue;
+            int n = 0;
+            foreach (var line in File.ReadAllLines(file)) rows.Add(RaceRow.Parse(line, file, ++n));
+        }
+        return rows;
+    }
+
+    /// <summary>results.csv: one row per board per race, in (variant, race, board) order.</summary>
+    public static string ResultsCsv(IEnumerable<RaceRow> rows)
+    {
+        var sb = new StringBuilder(RaceRow.Header).Append('\n');
+        foreach (var r in rows) sb.Append(r.ToCsv()).Append('\n');
+        return sb.ToString();
+    }
+}
