@@ -69,11 +69,12 @@ public static class BatchRunner
     public static IReadOnlyList<RaceRow> Run(ExperimentSpec spec, string outDir, int threads, bool resume, Action<BatchProgress>? progress = null,
         CancellationToken cancel = default)
     {
-        var jobs = new List<(Variant V, int Race)>();
-        foreach (var v in spec.Variants)
+        var jobs = new List<(Variant V, int Race, int Index)>();
+        for (int vi = 0; vi < spec.Variants.Count; vi++)
         {
+            var v = spec.Variants[vi];
             Directory.CreateDirectory(Path.Combine(outDir, "runs", v.Name));
-            for (int i = 0; i < spec.Races; i++) jobs.Add((v, i));
+            for (int i = 0; i < spec.Races; i++) jobs.Add((v, i, vi));
         }
         var todo = jobs.Where(j => !(resume && File.Exists(RunFile(outDir, j.V.Name, j.Race)))).ToList();
         if (!resume)
@@ -85,7 +86,7 @@ public static class BatchRunner
         {
             Parallel.ForEach(todo, options, job =>
             {
-                ulong seed = ExperimentFile.RaceSeed(spec.MasterSeed, job.Race);
+                ulong seed = spec.SeedFor(job.Index, job.Race);
                 var setup = job.V.Setup with { Race = job.V.Setup.Race with { Seed = seed } };
                 var race = new Race(setup);
                 var result = race.Run();

@@ -9,7 +9,12 @@ public sealed record Variant(string Name, IReadOnlyList<string> Sets, RaceSetup 
 
 /// <summary>An experiment: a base scenario, its variants, the number of races and the master seed.</summary>
 public sealed record ExperimentSpec(string Name, string Description, string ScenarioPath, string Focus, IReadOnlyList<Variant> Variants,
-    int Races, ulong MasterSeed, string SourcePath);
+    int Races, ulong MasterSeed, string SourcePath, bool CommonSeeds = true)
+{
+    /// <summary>The seed variant v sails race i with: the same for every variant (common random numbers) unless the
+    /// experiment asks for independent seeds (then each variant has its own stream, for A/A checks of the statistics).</summary>
+    public ulong SeedFor(int variant, int race) => ExperimentFile.RaceSeed(CommonSeeds ? MasterSeed : MasterSeed ^ (0xA5A5_0000UL + (ulong)variant * 0x9E3779B97F4A7C15UL), race);
+}
 
 /// <summary>
 /// Experiment files (TOML): <c>scenario</c> (relative to the experiment), <c>races</c>, <c>seed</c>, <c>focus</c> (the
@@ -27,6 +32,7 @@ public static class ExperimentFile
         KeySpec.Number("races", 1, 100000, 50, "races per variant"),
         KeySpec.Number("seed", 0, 9007199254740991, 1, "master seed: race i of every variant gets the same seed from it"),
         KeySpec.Text("focus", "", "the board (its [boards.NAME] name) whose result the variants are compared on; default the first"),
+        KeySpec.Text("seeds", "common", "common: race i of every variant has the same wind (paired); independent: each variant its own", ["common", "independent"]),
         KeySpec.Text("variants.*.set", "", "scenario overrides for this variant, 'table.key=value' separated by ';'"),
         KeySpec.Text("variants.*.description", "", "what this variant changes"),
     ]);
@@ -62,6 +68,6 @@ public static class ExperimentFile
         if (focus.Length == 0) focus = variants[0].Setup.Boards[0].Id;
         int n = races ?? (int)f.Number("races");
         return new ExperimentSpec(f.Text("name") is { Length: > 0 } nm ? nm : Path.GetFileNameWithoutExtension(path), f.Text("description"),
-            full, focus, variants, n, (ulong)f.Number("seed"), f.Path);
+            full, focus, variants, n, (ulong)f.Number("seed"), f.Path, f.Text("seeds") == "common");
     }
 }

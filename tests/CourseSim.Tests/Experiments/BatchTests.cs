@@ -90,3 +90,74 @@ public class BatchTests
         Assert.Contains("not found", Assert.Throws<SettingsException>(() => ExperimentFile.Load(Path.Combine(dir, "e3.toml"))).Message);
     }
 }
+
+public class ExperimentStatisticsTests
+{
+    static string Folder(string scenario, string experiment)
+    {
+        string dir = Directory.CreateTempSubdirectory("cs-exp-").FullName;
+        File.WriteAllText(Path.Combine(dir, "race.toml"), scenario);
+        File.WriteAllText(Path.Combine(dir, "exp.toml"), experiment);
+        return Path.Combine(dir, "exp.toml");
+    }
+
+    static string Short(double kn, string boards) =>
+        $"[wind]\nspeed_kn = {kn}\ndirection_deg = 0\nshift_amplitude_deg = 8\nshift_period_s = 240\ngust_intensity = 0\nshadows = false\n" +
+        "[race]\ntime_limit_s = 1200\ncountdown_s = 30\n[course]\nkind = \"windward-leeward\"\nlaps = 1\nbeat_m = 250\n" + boards;
+
+    [Fact]
+    public void IdenticalVariantsOnCommonSeedsShowNoDifferenceAtAll()
+    {
+        var path = Folder(Short(12, $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n"),
+            "scenario = \"race.toml\"\nraces = 8\nseed = 3\n[variants.one]\nset = \"\"\n[variants.two]\nset = \"\"\n");
+        var spec = ExperimentFile.Load(path);
+        var rows = BatchRunner.Run(spec, Path.Combine(Path.GetDirectoryName(path)!, "out"), 2, false);
+        var (_, pairs) = Comparison.Of(spec, rows, 1);
+        var p = Assert.Single(pairs);
+        Assert.Equal(0, p.MeanDiffT.Estimate);
+        Assert.False(p.Significant);
+    }
+
+    /// <summary>
+    /// A/A with independent seeds: two identical variants raced in different winds. Split into 100 experiments of 10
+    /// paired races, a 95 % interval should call about 5 % of them "significant" (the nominal false-positive rate);
+    /// the observed rate's Wilson interval must contain 5 %.
+    /// </summary>
+    [Fact]
+    public void TheFalsePositiveRateOfAaExperimentsIsNearTheNominalLevel()
+    {
+        var path = Folder(Short(12, $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n[boards.b]\nequipment = \"{EngineTestKit.Equip("heavy-70.toml")}\"\n"),
+            "scenario = \"race.toml\"\nraces = 1000\nseed = 11\nseeds = \"independent\"\n[variants.one]\nset = \"\"\n[variants.two]\nset = \"\"\n");
+        var spec = ExperimentFile.Load(path);
+        var rows = BatchRunner.Run(spec, Path.Combine(Path.GetDirectoryName(path)!, "out"), System.Environment.ProcessorCount, false);
+        double Time(RaceRow r) => r.Finished && r.ElapsedS is double e ? e : r.DurationS;
+        var one = rows.Where(r => r.Variant == "one" && r.BoardId == "a").OrderBy(r => r.Race).Select(Time).ToArray();
+        var two = rows.Where(r => r.Variant == "two" && r.BoardId == "a").OrderBy(r => r.Race).Select(Time).ToArray();
+        Assert.Equal(1000, one.Length);
+        Assert.NotEqual(one, two); // independent winds
+        int significant = 0;
+        for (int k = 0; k < 100; k++)
+        {
+            var d = Enumerable.Range(10 * k, 10).Select(i => one[i] - two[i]).ToArray();
+            if (Statistics.PairedT(d).ExcludesZero) significant++;
+        }
+        var rate = Statistics.Wilson(significant, 100);
+        Assert.True(rate.Low <= 0.05 && 0.05 <= rate.High, $"{significant} of 100 A/A experiments significant");
+    }
+
+    [Fact]
+    public void AMuchBiggerSailInLightWindIsFoundFasterWithTheRightSign()
+    {
+        // The same heavy rider on 7.0 and 8.6 m2 in 8 kn: the bigger sail planes earlier and pulls harder (docs/polar.md).
+        var path = Folder(Short(8, $"[boards.t]\nequipment = \"{EngineTestKit.Equip("heavy-70.toml")}\"\n"),
+            $"scenario = \"race.toml\"\nraces = 10\nseed = 5\n[variants.small]\nset = \"\"\n[variants.big]\nset = \"boards.t.equipment={EngineTestKit.Equip("heavy-86.toml")}\"\n");
+        var spec = ExperimentFile.Load(path);
+        var rows = BatchRunner.Run(spec, Path.Combine(Path.GetDirectoryName(path)!, "out"), 2, false);
+        var (variants, pairs) = Comparison.Of(spec, rows, 1);
+        var p = Assert.Single(pairs);
+        Assert.Equal(("small", "big"), (p.A, p.B));
+        Assert.True(p.Significant, $"small - big = {p.MeanDiffT.Estimate:F1} s ({p.MeanDiffT.Low:F1} to {p.MeanDiffT.High:F1})");
+        Assert.True(p.MeanDiffT.Estimate > 0, "the small sail should be slower");
+        Assert.True(variants[1].MeanElapsedS < variants[0].MeanElapsedS);
+    }
+}
