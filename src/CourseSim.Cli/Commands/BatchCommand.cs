@@ -69,6 +69,9 @@ public static class BatchCommand
                 significant = p.Significant, races_needed = p.PairsNeeded }),
             caution = Caution.Text,
         }) + "\n");
+        var md = ExperimentReport.Markdown(spec, variants, pairs, rows, !cts.IsCancellationRequested);
+        AtomicFile.WriteAllText(Path.Combine(dir, "report.md"), md);
+        AtomicFile.WriteAllText(Path.Combine(dir, "report.html"), ExperimentReport.Html(spec, md, ExperimentReport.DurationChart(spec, rows), ExperimentReport.IntervalChart(pairs)));
         var console = Terminal.For(stdout);
         var t = new Table().Border(TableBorder.Simple).Title($"[bold]{Markup.Escape(spec.Name)}[/]: {spec.Races} races per variant, focus {Markup.Escape(spec.Focus)}");
         t.AddColumn("variant"); t.AddColumn(new TableColumn("races").RightAligned()); t.AddColumn(new TableColumn("mean time").RightAligned());
@@ -81,7 +84,7 @@ public static class BatchCommand
             console.MarkupLine(Markup.Escape($"{p.A} - {p.B}: {F(p.MeanDiffT.Estimate, "0.0")} s (95 % {F(p.MeanDiffT.Low, "0.0")} to {F(p.MeanDiffT.High, "0.0")}; bootstrap " +
                 $"{F(p.MeanDiffBootstrap.Low, "0.0")} to {F(p.MeanDiffBootstrap.High, "0.0")}), {p.A} faster in {F(p.WinProbability.Estimate * 100, "0")} % of races: " +
                 (p.Significant ? "resolved" : $"not resolved (about {p.PairsNeeded} races would resolve a difference this size)")));
-        console.MarkupLine("[grey]" + Markup.Escape($"{rows.Select(r => (r.Variant, r.Race)).Distinct().Count()} races in {clock.Elapsed.TotalSeconds:0.0} s; wrote results.csv, summary.json and runs/ in {dir}") + "[/]");
+        console.MarkupLine("[grey]" + Markup.Escape($"{rows.Select(r => (r.Variant, r.Race)).Distinct().Count()} races in {clock.Elapsed.TotalSeconds:0.0} s; wrote results.csv, summary.json, report.md, report.html and runs/ in {dir}") + "[/]");
         console.MarkupLine("[yellow]" + Markup.Escape(Caution.Text) + "[/]");
         return ExitCodes.Ok;
     }

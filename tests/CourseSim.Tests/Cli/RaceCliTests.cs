@@ -84,6 +84,12 @@ public class BatchCliTests
         var p = doc.RootElement.GetProperty("pairs")[0];
         foreach (var name in new[] { "a", "b", "mean_diff_s", "ci_low_s", "ci_high_s", "significant" }) Assert.True(p.TryGetProperty(name, out _), name);
         Assert.Equal(1 + 2 * 3 * 12, File.ReadAllLines(Path.Combine(dir, "results.csv")).Length);
+        var md = File.ReadAllText(Path.Combine(dir, "report.md"));
+        Assert.Contains("| sail-66 - sail-78 |", md);
+        Assert.Contains("Caution", md);
+        var html = File.ReadAllText(Path.Combine(dir, "report.html"));
+        Assert.Equal(2, System.Text.RegularExpressions.Regex.Matches(html, "data:image/png;base64,").Count);
+        Assert.DoesNotContain("src=\"http", html); // self-contained
         Assert.Equal(2, CourseSim.Cli.Program.Run(["batch", exp, "--races", "0"], new StringWriter(), new StringWriter()));
     }
 }

@@ -1,0 +1,133 @@
+using System.Globalization;
+using System.Net;
+using System.Text;
+using CourseSim.Experiments;
+using ScottPlot;
+
+namespace CourseSim.Cli.Output;
+
+/// <summary>
+/// The experiment report (first part): Markdown and one self-contained HTML page (charts embedded as PNG) with the
+/// variants, the paired differences and the distribution of race durations.
+/// </summary>
+public static class ExperimentReport
+{
+    static string F(double v, string fmt = "0.0") => double.IsFinite(v) ? v.ToString(fmt, CultureInfo.InvariantCulture) : "-";
+
+    /// <summary>Race durations (first finisher) by variant.</summary>
+    static Dictionary<string, double[]> Durations(ExperimentSpec spec, IReadOnlyList<RaceRow> rows) =>
+        spec.Variants.ToDictionary(v => v.Name, v => rows.Where(r => r.Variant == v.Name && r.Place == 1).Select(r => r.ElapsedS ?? r.DurationS).Order().ToArray());
+
+    public static byte[] DurationChart(ExperimentSpec spec, IReadOnlyList<RaceRow> rows)
+    {
+        var plt = new Plot();
+        var d = Durations(spec, rows);
+        var all = d.Values.SelectMany(x => x).ToArray();
+        if (all.Length > 0)
+        {
+            double lo = Math.Floor(all.Min() / 30) * 30, hi = Math.Ceiling(all.Max() / 30) * 30 + 30;
+            int bins = Math.Max(1, (int)((hi - lo) / 30));
+            int k = 0;
+            foreach (var (name, values) in d)
+            {
+                var counts = new double[bins];
+                foreach (var v in values) counts[Math.Clamp((int)((v - lo) / 30), 0, bins - 1)]++;
+                var xs = Enumerable.Range(0, bins).Select(i => (lo + 30 * i + 15) / 60.0).ToArray();
+                var line = plt.Add.ScatterLine(xs, counts);
+                line.Color = PolarCharts.Palette[k % PolarCharts.Palette.Length]; line.LineWidth = 2; line.LegendText = name;
+                line.MarkerSize = 6;
+                k++;
+            }
+        }
+        plt.Title("Race duration (winner's time): races per 30-second bin");
+        plt.XLabel("minutes"); plt.YLabel("races");
+        plt.ShowLegend(Alignment.UpperRight);
+        return plt.GetImageBytes(900, 450, ImageFormat.Png);
+    }
+
+    public static byte[] IntervalChart(IReadOnlyList<PairSummary> pairs)
+    {
+        var plt = new Plot();
+        for (int i = 0; i < pairs.Count; i++)
+        {
+            var p = pairs[i];
+            var c = PolarCharts.Palette[i % PolarCharts.Palette.Length];
+            var bar = plt.Add.Line(p.MeanDiffT.Low, i, p.MeanDiffT.High, i); bar.Color = c; bar.LineWidth = 4;
+            var m = plt.Add.Marker(p.MeanDiffT.Estimate, i); m.Color = c; m.Size = 10;
+            var t = plt.Add.Text($"{p.A} - {p.B}", p.MeanDiffT.Low, i + 0.25); t.LabelFontSize = 12;
+        }
+        if (pairs.Count > 0)
+        {
+            double lo = Math.Min(0, pairs.Min(p => p.MeanDiffT.Low)), hi = Math.Max(0, pairs.Max(p => p.MeanDiffT.High));
+            double pad = Math.Max(1, 0.1 * (hi - lo));
+            plt.Axes.SetLimitsX(lo - pad, hi + pad);
+        }
+        var zero = plt.Add.VerticalLine(0); zero.Color = Colors.Gray; zero.LinePattern = LinePattern.Dashed;
+        plt.Title("Paired difference of the focus board's time, s (95 % t interval)");
+        plt.XLabel("seconds (negative: the first variant faster)");
+        plt.Axes.Left.TickLabelStyle.IsVisible = false;
+        plt.Axes.SetLimitsY(-0.6, Math.Max(1, pairs.Count) - 0.2);
+        return plt.GetImageBytes(900, Math.Max(220, 90 * pairs.Count + 120), ImageFormat.Png);
+    }
+
+    public static string Markdown(ExperimentSpec spec, IReadOnlyList<VariantSummary> variants, IReadOnlyList<PairSummary> pairs,
+        IReadOnlyList<RaceRow> rows, bool complete)
+    {
+        var sb = new StringBuilder();
+        sb.Append(CultureInfo.InvariantCulture, $"# {spec.Name}\n\n");
+        if (spec.Description.Length > 0) sb.Append(spec.Description).Append("\n\n");
+        sb.Append(CultureInfo.InvariantCulture, $"{spec.Races} races per variant, {(spec.CommonSeeds ? "paired by seed (every variant sails race i in the same wind)" : "independent seeds")}; compared on board **{spec.Focus}**; master seed {spec.MasterSeed}.");
+        if (!complete) sb.Append(" **Stopped early: this report covers the races that finished.**");
+        sb.Append("\n\n| variant | races | mean time (s) | win share (95 %) | mean place | race duration median (P10-P90), min |\n|---|---|---|---|---|---|\n");
+        var dur = Durations(spec, rows);
+        foreach (var v in variants)
+        {
+            var d = dur[v.Name];
+            string dd = d.Length == 0 ? "-" : $"{F(Statistics.Quantile(d, 0.5) / 60)} ({F(Statistics.Quantile(d, 0.1) / 60)}-{F(Statistics.Quantile(d, 0.9) / 60)})";
+            sb.Append(CultureInfo.InvariantCulture, $"| {v.Name} | {v.Races} | {F(v.MeanElapsedS)} | {F(v.WinShare.Estimate * 100, "0")} % ({F(v.WinShare.Low * 100, "0")}-{F(v.WinShare.High * 100, "0")}) | {F(v.MeanPlace)} | {dd} |\n");
+        }
+        if (pairs.Count > 0)
+        {
+            sb.Append("\n| a - b | races | mean difference (s) | 95 % t interval | bootstrap interval | a faster in | verdict |\n|---|---|---|---|---|---|---|\n");
+            foreach (var p in pairs)
+                sb.Append(CultureInfo.InvariantCulture, $"| {p.A} - {p.B} | {p.Pairs} | {F(p.MeanDiffT.Estimate)} | {F(p.MeanDiffT.Low)} to {F(p.MeanDiffT.High)} | {F(p.MeanDiffBootstrap.Low)} to {F(p.MeanDiffBootstrap.High)} | {F(p.WinProbability.Estimate * 100, "0")} % | {(p.Significant ? "resolved" : $"not resolved: about {p.PairsNeeded} races needed")} |\n");
+        }
+        sb.Append("\nA difference is called resolved only when its 95 % interval excludes zero. A board that did not finish counts the time limit.\n\n");
+        sb.Append("> ").Append(Caution.Text).Append('\n');
+        return sb.ToString();
+    }
+
+    /// <summary>The HTML page: the Markdown's content as tables, with the charts embedded.</summary>
+    public static string Html(ExperimentSpec spec, string markdown, byte[] durations, byte[] intervals)
+    {
+        var sb = new StringBuilder();
+        sb.Append("<!doctype html><html lang=\"en\"><head><meta charset=\"utf-8\"><title>").Append(WebUtility.HtmlEncode(spec.Name)).Append("</title>");
+        sb.Append("<style>body{font-family:system-ui,sans-serif;max-width:980px;margin:2em auto;color:#1d2a33}table{border-collapse:collapse;margin:1em 0}" +
+                  "td,th{border-bottom:1px solid #c9d3da;padding:4px 10px;text-align:left}th{background:#eef3f6}blockquote{color:#7a4b00;border-left:4px solid #E69F00;padding-left:1em}</style></head><body>");
+        foreach (var block in markdown.Split("\n\n"))
+        {
+            var lines = block.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+            if (lines.Length == 0) continue;
+            if (lines[0].StartsWith("# ", StringComparison.Ordinal)) sb.Append("<h1>").Append(WebUtility.HtmlEncode(lines[0][2..])).Append("</h1>");
+            else if (lines[0].StartsWith('|'))
+            {
+                sb.Append("<table>");
+                for (int i = 0; i < lines.Length; i++)
+                {
+                    if (i == 1) continue; // the Markdown separator row
+                    var cells = lines[i].Trim('|').Split('|');
+                    sb.Append("<tr>");
+                    foreach (var c in cells) sb.Append(i == 0 ? "<th>" : "<td>").Append(WebUtility.HtmlEncode(c.Trim())).Append(i == 0 ? "</th>" : "</td>");
+                    sb.Append("</tr>");
+                }
+                sb.Append("</table>");
+            }
+            else if (lines[0].StartsWith("> ", StringComparison.Ordinal)) sb.Append("<blockquote>").Append(WebUtility.HtmlEncode(lines[0][2..])).Append("</blockquote>");
+            else sb.Append("<p>").Append(WebUtility.HtmlEncode(string.Join(' ', lines)).Replace("**", "")).Append("</p>");
+        }
+        sb.Append("<h2>Race durations</h2><img alt=\"race durations\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(durations)).Append("\">");
+        sb.Append("<h2>Paired differences</h2><img alt=\"paired differences\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(intervals)).Append("\">");
+        sb.Append("</body></html>\n");
+        return sb.ToString();
+    }
+}
