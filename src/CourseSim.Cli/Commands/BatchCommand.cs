@@ -55,6 +55,7 @@ public static class BatchCommand
         finally { Console.CancelKeyPress -= onCancel; }
         var (variants, pairs) = Comparison.Of(spec, rows, spec.MasterSeed);
         AtomicFile.WriteAllText(Path.Combine(dir, "results.csv"), BatchRunner.ResultsCsv(rows));
+        ParquetResults.Write(rows, Path.Combine(dir, "results.parquet"));
         AtomicFile.WriteAllText(Path.Combine(dir, "summary.json"), Json.Serialize(new
         {
             experiment = spec.Name,
@@ -84,7 +85,7 @@ public static class BatchCommand
             console.MarkupLine(Markup.Escape($"{p.A} - {p.B}: {F(p.MeanDiffT.Estimate, "0.0")} s (95 % {F(p.MeanDiffT.Low, "0.0")} to {F(p.MeanDiffT.High, "0.0")}; bootstrap " +
                 $"{F(p.MeanDiffBootstrap.Low, "0.0")} to {F(p.MeanDiffBootstrap.High, "0.0")}), {p.A} faster in {F(p.WinProbability.Estimate * 100, "0")} % of races: " +
                 (p.Significant ? "resolved" : $"not resolved (about {p.PairsNeeded} races would resolve a difference this size)")));
-        console.MarkupLine("[grey]" + Markup.Escape($"{rows.Select(r => (r.Variant, r.Race)).Distinct().Count()} races in {clock.Elapsed.TotalSeconds:0.0} s; wrote results.csv, summary.json, report.md, report.html and runs/ in {dir}") + "[/]");
+        console.MarkupLine("[grey]" + Markup.Escape($"{rows.Select(r => (r.Variant, r.Race)).Distinct().Count()} races in {clock.Elapsed.TotalSeconds:0.0} s; wrote results.csv, results.parquet, summary.json, report.md, report.html and runs/ in {dir}") + "[/]");
         console.MarkupLine("[yellow]" + Markup.Escape(Caution.Text) + "[/]");
         return ExitCodes.Ok;
     }

@@ -84,6 +84,9 @@ public class BatchCliTests
         var p = doc.RootElement.GetProperty("pairs")[0];
         foreach (var name in new[] { "a", "b", "mean_diff_s", "ci_low_s", "ci_high_s", "significant" }) Assert.True(p.TryGetProperty(name, out _), name);
         Assert.Equal(1 + 2 * 3 * 12, File.ReadAllLines(Path.Combine(dir, "results.csv")).Length);
+        var pq = CourseSim.Cli.Output.ParquetResults.Read(Path.Combine(dir, "results.parquet"));
+        Assert.Equal(2 * 3 * 12, pq.Count);
+        Assert.Equal(File.ReadAllLines(Path.Combine(dir, "results.csv"))[1].Split(',')[0], pq[0].variant);
         var md = File.ReadAllText(Path.Combine(dir, "report.md"));
         Assert.Contains("| sail-66 - sail-78 |", md);
         Assert.Contains("Caution", md);
