@@ -70,7 +70,7 @@ public static class BatchCommand
                 significant = p.Significant, races_needed = p.PairsNeeded }),
             caution = Caution.Text,
         }) + "\n");
-        var md = ExperimentReport.Markdown(spec, variants, pairs, rows, !cts.IsCancellationRequested);
+        var md = ExperimentReport.Markdown(spec, variants, pairs, rows, !cts.IsCancellationRequested, BatchRunner.ReadMetrics(spec, dir));
         AtomicFile.WriteAllText(Path.Combine(dir, "report.md"), md);
         AtomicFile.WriteAllText(Path.Combine(dir, "report.html"), ExperimentReport.Html(spec, md, ExperimentReport.DurationChart(spec, rows), ExperimentReport.IntervalChart(pairs)));
         var console = Terminal.For(stdout);

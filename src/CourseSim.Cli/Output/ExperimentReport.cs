@@ -71,7 +71,7 @@ public static class ExperimentReport
     }
 
     public static string Markdown(ExperimentSpec spec, IReadOnlyList<VariantSummary> variants, IReadOnlyList<PairSummary> pairs,
-        IReadOnlyList<RaceRow> rows, bool complete)
+        IReadOnlyList<RaceRow> rows, bool complete, IReadOnlyList<(string Variant, int Race, string Line)>? metrics = null)
     {
         var sb = new StringBuilder();
         sb.Append(CultureInfo.InvariantCulture, $"# {spec.Name}\n\n");
@@ -93,7 +93,43 @@ public static class ExperimentReport
                 sb.Append(CultureInfo.InvariantCulture, $"| {p.A} - {p.B} | {p.Pairs} | {F(p.MeanDiffT.Estimate)} | {F(p.MeanDiffT.Low)} to {F(p.MeanDiffT.High)} | {F(p.MeanDiffBootstrap.Low)} to {F(p.MeanDiffBootstrap.High)} | {F(p.WinProbability.Estimate * 100, "0")} % | {(p.Significant ? "resolved" : $"not resolved: about {p.PairsNeeded} races needed")} |\n");
         }
         sb.Append("\nA difference is called resolved only when its 95 % interval excludes zero. A board that did not finish counts the time limit.\n\n");
+        if (metrics is not null) sb.Append(Organisers(spec, rows, metrics));
         sb.Append("> ").Append(Caution.Text).Append('\n');
+        return sb.ToString();
+    }
+
+    /// <summary>
+    /// For organisers: race duration, mean leg times of the finishers, start-line bias, side fairness on the first beat
+    /// (mean place of the boards that went left against those that went right) and bunching at the marks.
+    /// </summary>
+    static string Organisers(ExperimentSpec spec, IReadOnlyList<RaceRow> rows, IReadOnlyList<(string Variant, int Race, string Line)> metrics)
+    {
+        var sb = new StringBuilder("## For race organisers\n\n");
+        sb.Append("| variant | winner's time, median (P10-P90), min | mean leg times of finishers, min | line bias, mean abs (deg) | line advantage, mean (m) | first beat: share left; mean place left / right | peak boards within 30 m of a mark, mean | roundings within 5 s of the one before, per race |\n|---|---|---|---|---|---|---|---|\n");
+        foreach (var v in spec.Variants)
+        {
+            var m = metrics.Where(x => x.Variant == v.Name).Select(x => x.Line.Split(',')).ToList();
+            if (m.Count == 0) continue;
+            double P(string[] f, int i) => f[i].Length == 0 ? double.NaN : double.Parse(f[i], CultureInfo.InvariantCulture);
+            var winners = m.Select(f => P(f, 2)).Where(double.IsFinite).Order().ToArray();
+            string dur = winners.Length == 0 ? "-" : $"{F(Statistics.Quantile(winners, 0.5) / 60)} ({F(Statistics.Quantile(winners, 0.1) / 60)}-{F(Statistics.Quantile(winners, 0.9) / 60)})";
+            var vr = rows.Where(r => r.Variant == v.Name).ToList();
+            var finishers = vr.Where(r => r.Finished).Select(r => r.Splits).Where(s => s.Length > 0).ToList();
+            string legs = "-";
+            if (finishers.Count > 0)
+            {
+                int nLegs = finishers.Min(s => s.Length);
+                legs = string.Join(" ", Enumerable.Range(0, nLegs).Select(k => F(finishers.Average(s => s[k] - (k == 0 ? 0 : s[k - 1])) / 60, "0.0")));
+            }
+            double bias = m.Average(f => Math.Abs(P(f, 3))), adv = m.Average(f => P(f, 4));
+            var left = vr.Where(r => r.FirstBeatSide == "left").ToList(); var right = vr.Where(r => r.FirstBeatSide == "right").ToList();
+            double shareLeft = (left.Count + right.Count) == 0 ? double.NaN : (double)left.Count / (left.Count + right.Count);
+            double placeL = left.Where(r => r.Place is not null).Select(r => (double)r.Place!.Value).DefaultIfEmpty(double.NaN).Average();
+            double placeR = right.Where(r => r.Place is not null).Select(r => (double)r.Place!.Value).DefaultIfEmpty(double.NaN).Average();
+            sb.Append(CultureInfo.InvariantCulture, $"| {v.Name} | {dur} | {legs} | {F(bias)} | {F(adv)} | {F(shareLeft * 100, "0")} %; {F(placeL)} / {F(placeR)} | {F(m.Average(f => P(f, 5)))} | {F(m.Average(f => P(f, 6)), "0.0")} |\n");
+        }
+        sb.Append("\nLine bias: the wind at the middle of the line at the signal against the line's square; advantage = line length x sin(bias). ")
+          .Append("Side: the board's mean offset from the line start to the first mark while on the first leg.\n\n");
         return sb.ToString();
     }
 
@@ -109,6 +145,7 @@ public static class ExperimentReport
             var lines = block.Split('\n', StringSplitOptions.RemoveEmptyEntries);
             if (lines.Length == 0) continue;
             if (lines[0].StartsWith("# ", StringComparison.Ordinal)) sb.Append("<h1>").Append(WebUtility.HtmlEncode(lines[0][2..])).Append("</h1>");
+            else if (lines[0].StartsWith("## ", StringComparison.Ordinal)) sb.Append("<h2>").Append(WebUtility.HtmlEncode(lines[0][3..])).Append("</h2>");
             else if (lines[0].StartsWith('|'))
             {
                 sb.Append("<table>");

@@ -23,6 +23,8 @@ public static class ParquetResults
         public int falls { get; set; }
         public bool ocs { get; set; }
         public double race_duration_s { get; set; }
+        public string first_beat_side { get; set; } = "";
+        public string splits_s { get; set; } = "";
     }
 
     public static void Write(IEnumerable<RaceRow> rows, string path)
@@ -31,6 +33,7 @@ public static class ParquetResults
         {
             variant = r.Variant, race = r.Race, seed = unchecked((long)r.Seed), board = r.BoardId, name = r.Name, place = r.Place, finished = r.Finished,
             elapsed_s = r.ElapsedS, distance_m = r.DistanceM, tacks = r.Tacks, gybes = r.Gybes, falls = r.Falls, ocs = r.Ocs, race_duration_s = r.DurationS,
+            first_beat_side = r.FirstBeatSide, splits_s = r.SplitsS,
         }).ToList();
         string tmp = path + ".tmp";
         using (var fs = File.Create(tmp)) ParquetSerializer.SerializeAsync(data, fs).GetAwaiter().GetResult();

@@ -6,24 +6,27 @@ namespace CourseSim.Experiments;
 
 /// <summary>One board in one race of one variant: a row of results.csv.</summary>
 public sealed record RaceRow(string Variant, int Race, ulong Seed, string BoardId, string Name, int? Place, bool Finished, double? ElapsedS,
-    double DistanceM, int Tacks, int Gybes, int Falls, bool Ocs, double DurationS)
+    double DistanceM, int Tacks, int Gybes, int Falls, bool Ocs, double DurationS, string FirstBeatSide = "", string SplitsS = "")
 {
-    public const string Header = "variant,race,seed,board,name,place,finished,elapsed_s,distance_m,tacks,gybes,falls,ocs,race_duration_s";
+    public const string Header = "variant,race,seed,board,name,place,finished,elapsed_s,distance_m,tacks,gybes,falls,ocs,race_duration_s,first_beat_side,splits_s";
+
+    /// <summary>Split times (s from the signal) at each course step passed.</summary>
+    public double[] Splits => SplitsS.Length == 0 ? [] : SplitsS.Split(';').Select(x => double.Parse(x, CultureInfo.InvariantCulture)).ToArray();
 
     public string ToCsv() => string.Join(',', Csv(Variant), Race.ToString(CultureInfo.InvariantCulture), Seed.ToString(CultureInfo.InvariantCulture),
         Csv(BoardId), Csv(Name), Place?.ToString(CultureInfo.InvariantCulture) ?? "", Finished ? "true" : "false", N(ElapsedS), N(DistanceM),
         Tacks.ToString(CultureInfo.InvariantCulture), Gybes.ToString(CultureInfo.InvariantCulture), Falls.ToString(CultureInfo.InvariantCulture),
-        Ocs ? "true" : "false", N(DurationS));
+        Ocs ? "true" : "false", N(DurationS), FirstBeatSide, SplitsS);
 
     public static RaceRow Parse(string line, string source, int lineNo)
     {
         var p = SplitCsv(line);
-        if (p.Count != 14) throw new InvalidDataException($"{source}:{lineNo}: expected 14 fields, found {p.Count}");
+        if (p.Count != 16) throw new InvalidDataException($"{source}:{lineNo}: expected 16 fields, found {p.Count}");
         static double? D(string s) => s.Length == 0 ? null : double.Parse(s, CultureInfo.InvariantCulture);
         return new RaceRow(p[0], int.Parse(p[1], CultureInfo.InvariantCulture), ulong.Parse(p[2], CultureInfo.InvariantCulture), p[3], p[4],
             p[5].Length == 0 ? null : int.Parse(p[5], CultureInfo.InvariantCulture), p[6] == "true", D(p[7]), D(p[8]) ?? 0,
             int.Parse(p[9], CultureInfo.InvariantCulture), int.Parse(p[10], CultureInfo.InvariantCulture), int.Parse(p[11], CultureInfo.InvariantCulture),
-            p[12] == "true", D(p[13]) ?? 0);
+            p[12] == "true", D(p[13]) ?? 0, p[14], p[15]);
     }
 
     static string N(double? v) => v is double d ? Math.Round(d, 3).ToString("0.###", CultureInfo.InvariantCulture) : "";
@@ -64,6 +67,20 @@ public readonly record struct BatchProgress(int Done, int Total, int Resumed);
 public static class BatchRunner
 {
     public static string RunFile(string outDir, string variant, int race) => Path.Combine(outDir, "runs", variant, $"{race:D6}.csv");
+    public static string MetricsFile(string outDir, string variant, int race) => Path.Combine(outDir, "runs", variant, $"{race:D6}.race.csv");
+
+    /// <summary>The race figures of every finished race, in (variant, race) order.</summary>
+    public static IReadOnlyList<(string Variant, int Race, string Line)> ReadMetrics(ExperimentSpec spec, string outDir)
+    {
+        var list = new List<(string, int, string)>();
+        foreach (var v in spec.Variants)
+            for (int i = 0; i < spec.Races; i++)
+            {
+                var f = MetricsFile(outDir, v.Name, i);
+                if (File.Exists(f) && File.Exists(RunFile(outDir, v.Name, i))) list.Add((v.Name, i, File.ReadAllText(f).Trim()));
+            }
+        return list;
+    }
 
     /// <summary>Runs what is missing; returns the rows of every finished race, in order. Cancelling stops after the races under way.</summary>
     public static IReadOnlyList<RaceRow> Run(ExperimentSpec spec, string outDir, int threads, bool resume, Action<BatchProgress>? progress = null,
@@ -78,7 +95,9 @@ public static class BatchRunner
         }
         var todo = jobs.Where(j => !(resume && File.Exists(RunFile(outDir, j.V.Name, j.Race)))).ToList();
         if (!resume)
-            foreach (var j in jobs) { var f = RunFile(outDir, j.V.Name, j.Race); if (File.Exists(f)) File.Delete(f); }
+            foreach (var j in jobs)
+                foreach (var f in new[] { RunFile(outDir, j.V.Name, j.Race), MetricsFile(outDir, j.V.Name, j.Race) })
+                    if (File.Exists(f)) File.Delete(f);
         int resumed = jobs.Count - todo.Count, done = resumed;
         progress?.Invoke(new BatchProgress(done, jobs.Count, resumed));
         var options = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads), CancellationToken = cancel };
@@ -90,14 +109,19 @@ public static class BatchRunner
                 var setup = job.V.Setup with { Race = job.V.Setup.Race with { Seed = seed } };
                 var race = new Race(setup);
                 var result = race.Run();
+                var metrics = RaceMetrics.Of(race, result);
                 var sb = new StringBuilder();
                 foreach (var b in result.Boards)
                 {
+                    string splits = string.Join(';', b.SplitsS.Select(x => Math.Round(x, 2).ToString("0.##", CultureInfo.InvariantCulture)));
                     var row = new RaceRow(job.V.Name, job.Race, seed, setup.Boards[b.Board].Id, b.Name, b.Place, b.Finished, b.ElapsedS, b.DistanceM,
-                        b.Tacks, b.Gybes, b.Falls, b.Ocs, result.DurationS);
+                        b.Tacks, b.Gybes, b.Falls, b.Ocs, result.DurationS, metrics.FirstBeatSide.TryGetValue(b.Board, out var side) ? side : "", splits);
                     sb.Append(row.ToCsv()).Append('\n');
                 }
                 var file = RunFile(outDir, job.V.Name, job.Race);
+                // The race's own figures first; the board rows last, as the mark that the race is complete.
+                File.WriteAllText(MetricsFile(outDir, job.V.Name, job.Race) + ".tmp", metrics.ToCsv(job.V.Name, job.Race) + "\n");
+                File.Move(MetricsFile(outDir, job.V.Name, job.Race) + ".tmp", MetricsFile(outDir, job.V.Name, job.Race), true);
                 File.WriteAllText(file + ".tmp", sb.ToString());
                 File.Move(file + ".tmp", file, true);
                 int d = Interlocked.Increment(ref done);

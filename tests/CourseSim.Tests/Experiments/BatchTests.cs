@@ -161,3 +161,26 @@ public class ExperimentStatisticsTests
         Assert.True(variants[1].MeanElapsedS < variants[0].MeanElapsedS);
     }
 }
+
+public class RaceMetricsTests
+{
+    /// <summary>
+    /// Line bias: a line laid square to 0 deg in a wind from 5 deg is 5 deg biased; the advantage of the favoured end is
+    /// the line length x sin(bias): 300 m at 5 deg -> 26.15 m (computed, the project's reference notes).
+    /// </summary>
+    [Fact]
+    public void LineBiasAndItsAdvantageInMetres()
+    {
+        var setup = EngineTestKit.Parse(EngineTestKit.SteadyWind(12, 5) + "[race]\ntime_limit_s = 900\n[course]\nkind = \"windward-leeward\"\naxis_deg = 0\nbeat_m = 300\nstart_line_m = 300\n" +
+            $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n[boards.b]\nequipment = \"{EngineTestKit.Equip("heavy-86.toml")}\"\n");
+        var race = new CourseSim.Engine.Race(setup);
+        var result = race.Run();
+        var m = RaceMetrics.Of(race, result);
+        Assert.Equal(5, m.LineBiasDeg, 6);
+        Assert.Equal(26.15, m.LineBiasM, 2);
+        Assert.Equal(2, m.FirstBeatSide.Count);
+        Assert.All(m.FirstBeatSide.Values, s => Assert.Contains(s, new[] { "left", "right" }));
+        Assert.True(m.PeakAtMark >= 1);
+        Assert.Equal(result.Boards.Where(b => b.Finished).Min(b => b.ElapsedS!.Value), m.WinnerS, 9);
+    }
+}
