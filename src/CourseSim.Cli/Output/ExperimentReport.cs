@@ -94,6 +94,7 @@ public static class ExperimentReport
         }
         sb.Append("\nA difference is called resolved only when its 95 % interval excludes zero. A board that did not finish counts the time limit.\n\n");
         if (metrics is not null) sb.Append(Organisers(spec, rows, metrics));
+        if (metrics is not null && !double.IsNaN(spec.WindMinKn)) sb.Append(Riders(spec, rows, metrics, pairs));
         sb.Append("> ").Append(Caution.Text).Append('\n');
         return sb.ToString();
     }
@@ -130,6 +131,32 @@ public static class ExperimentReport
         }
         sb.Append("\nLine bias: the wind at the middle of the line at the signal against the line's square; advantage = line length x sin(bias). ")
           .Append("Side: the board's mean offset from the line start to the first mark while on the first leg.\n\n");
+        return sb.ToString();
+    }
+
+    /// <summary>
+    /// For riders: the paired difference of the focus board's time binned by the race's wind (the experiment spans a
+    /// range of winds), and the winds where one variant overtakes the other.
+    /// </summary>
+    static string Riders(ExperimentSpec spec, IReadOnlyList<RaceRow> rows, IReadOnlyList<(string Variant, int Race, string Line)> metrics,
+        IReadOnlyList<PairSummary> pairs)
+    {
+        var sb = new StringBuilder("## For riders\n\n");
+        var wind = metrics.GroupBy(m => m.Race).ToDictionary(g => g.Key, g => double.Parse(g.First().Line.Split(',')[7], CultureInfo.InvariantCulture));
+        double Time(RaceRow r) => r.Finished && r.ElapsedS is double e ? e : r.DurationS;
+        foreach (var p in pairs)
+        {
+            var a = rows.Where(r => r.Variant == p.A && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
+            var b = rows.Where(r => r.Variant == p.B && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
+            var diffs = a.Keys.Intersect(b.Keys).Where(wind.ContainsKey).Select(k => (wind[k], Time(a[k]) - Time(b[k]))).ToList();
+            var bins = WindBins.Of(diffs, 2);
+            sb.Append(CultureInfo.InvariantCulture, $"{p.A} - {p.B}, by the race's mean wind (negative: {p.A} faster):\n\n| wind (kn) | races | mean difference (s) |\n|---|---|---|\n");
+            foreach (var bin in bins) sb.Append(CultureInfo.InvariantCulture, $"| {F(bin.LowKn, "0")}-{F(bin.HighKn, "0")} | {bin.Races} | {F(bin.MeanDiffS)} |\n");
+            var cross = WindBins.Crossovers(bins);
+            sb.Append('\n').Append(cross.Count == 0 ? $"No crossover in {F(spec.WindMinKn, "0")}-{F(spec.WindMaxKn, "0")} kn." :
+                "Crossover near " + string.Join(", ", cross.Select(c => F(c, "0.0") + " kn")) + " (where the binned mean changes sign; few races per bin make it rough).")
+              .Append(" Compare with `coursesim polar` for the two set-ups.\n\n");
+        }
         return sb.ToString();
     }
 

@@ -107,6 +107,8 @@ public static class BatchRunner
             {
                 ulong seed = spec.SeedFor(job.Index, job.Race);
                 var setup = job.V.Setup with { Race = job.V.Setup.Race with { Seed = seed } };
+                double wind = spec.WindFor(job.Race);
+                if (!double.IsNaN(wind)) setup = setup with { Wind = setup.Wind with { SpeedKn = wind } };
                 var race = new Race(setup);
                 var result = race.Run();
                 var metrics = RaceMetrics.Of(race, result);

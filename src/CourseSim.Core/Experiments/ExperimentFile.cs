@@ -9,8 +9,15 @@ public sealed record Variant(string Name, IReadOnlyList<string> Sets, RaceSetup 
 
 /// <summary>An experiment: a base scenario, its variants, the number of races and the master seed.</summary>
 public sealed record ExperimentSpec(string Name, string Description, string ScenarioPath, string Focus, IReadOnlyList<Variant> Variants,
-    int Races, ulong MasterSeed, string SourcePath, bool CommonSeeds = true)
+    int Races, ulong MasterSeed, string SourcePath, bool CommonSeeds = true, double WindMinKn = double.NaN, double WindMaxKn = double.NaN)
 {
+    /// <summary>
+    /// The mean wind of race i (kn) when the experiment spans a range of winds: drawn uniformly from the range with the
+    /// race's common seed, so every variant sails race i in the same wind; NaN when the scenario's own wind is used.
+    /// </summary>
+    public double WindFor(int race) => double.IsNaN(WindMinKn) ? double.NaN
+        : WindMinKn + (WindMaxKn - WindMinKn) * new CourseSim.Random.CounterRng(ExperimentFile.RaceSeed(MasterSeed, race), 0x3117D).Uniform(0);
+
     /// <summary>The seed variant v sails race i with: the same for every variant (common random numbers) unless the
     /// experiment asks for independent seeds (then each variant has its own stream, for A/A checks of the statistics).</summary>
     public ulong SeedFor(int variant, int race) => ExperimentFile.RaceSeed(CommonSeeds ? MasterSeed : MasterSeed ^ (0xA5A5_0000UL + (ulong)variant * 0x9E3779B97F4A7C15UL), race);
@@ -33,6 +40,8 @@ public static class ExperimentFile
         KeySpec.Number("seed", 0, 9007199254740991, 1, "master seed: race i of every variant gets the same seed from it"),
         KeySpec.Text("focus", "", "the board (its [boards.NAME] name) whose result the variants are compared on; default the first"),
         KeySpec.Text("seeds", "common", "common: race i of every variant has the same wind (paired); independent: each variant its own", ["common", "independent"]),
+        KeySpec.Derived("wind_min_kn", 0, 45, "with wind_max_kn: race i's mean wind is drawn from this range (the same for every variant), kn"),
+        KeySpec.Derived("wind_max_kn", 0, 45, "upper end of the range of mean winds, kn"),
         KeySpec.Text("variants.*.set", "", "scenario overrides for this variant, 'table.key=value' separated by ';'"),
         KeySpec.Text("variants.*.description", "", "what this variant changes"),
     ]);
@@ -66,8 +75,11 @@ public static class ExperimentFile
             variants.Add(new Variant(v, sets, setup));
         }
         if (focus.Length == 0) focus = variants[0].Setup.Boards[0].Id;
+        double wMin = f.Number("wind_min_kn"), wMax = f.Number("wind_max_kn");
+        if (double.IsNaN(wMin) != double.IsNaN(wMax)) throw f.ErrorAt(double.IsNaN(wMin) ? "wind_max_kn" : "wind_min_kn", "give both wind_min_kn and wind_max_kn, or neither");
+        if (wMin > wMax) throw f.ErrorAt("wind_max_kn", $"must be at least wind_min_kn ({wMin})");
         int n = races ?? (int)f.Number("races");
         return new ExperimentSpec(f.Text("name") is { Length: > 0 } nm ? nm : Path.GetFileNameWithoutExtension(path), f.Text("description"),
-            full, focus, variants, n, (ulong)f.Number("seed"), f.Path, f.Text("seeds") == "common");
+            full, focus, variants, n, (ulong)f.Number("seed"), f.Path, f.Text("seeds") == "common", wMin, wMax);
     }
 }

@@ -10,17 +10,17 @@ namespace CourseSim.Experiments;
 /// was, which side of the first beat each board took, and how boards bunched at the marks.
 /// </summary>
 public sealed record RaceMetrics(double WinnerS, double LineBiasDeg, double LineBiasM, double PeakAtMark, int CloseArrivals,
-    IReadOnlyDictionary<int, string> FirstBeatSide)
+    IReadOnlyDictionary<int, string> FirstBeatSide, double WindKn = double.NaN)
 {
     /// <summary>Radius around a mark counted as "at the mark" for congestion, m (about three board lengths and room; model value).</summary>
     public const double MarkRadiusM = 30;
     /// <summary>Two roundings of the same mark this close in time count as a close arrival, s.</summary>
     public const double CloseArrivalS = 5;
 
-    public const string Header = "variant,race,winner_s,line_bias_deg,line_bias_m,peak_boards_at_mark,close_arrivals";
+    public const string Header = "variant,race,winner_s,line_bias_deg,line_bias_m,peak_boards_at_mark,close_arrivals,wind_kn";
 
     public string ToCsv(string variant, int race) => string.Join(',', variant, race.ToString(CultureInfo.InvariantCulture), F(WinnerS), F(LineBiasDeg),
-        F(LineBiasM), F(PeakAtMark), CloseArrivals.ToString(CultureInfo.InvariantCulture));
+        F(LineBiasM), F(PeakAtMark), CloseArrivals.ToString(CultureInfo.InvariantCulture), F(WindKn));
 
     static string F(double v) => double.IsFinite(v) ? Math.Round(v, 3).ToString("0.###", CultureInfo.InvariantCulture) : "";
 
@@ -66,6 +66,6 @@ public sealed record RaceMetrics(double WinnerS, double LineBiasDeg, double Line
             var times = g.Select(e => e.TimeS).Order().ToArray();
             for (int i = 1; i < times.Length; i++) if (times[i] - times[i - 1] <= CloseArrivalS) close++;
         }
-        return new RaceMetrics(winner, bias, advantage, peak, close, sides);
+        return new RaceMetrics(winner, bias, advantage, peak, close, sides, race.Setup.Wind.SpeedKn);
     }
 }

@@ -184,3 +184,39 @@ public class RaceMetricsTests
         Assert.Equal(result.Boards.Where(b => b.Finished).Min(b => b.ElapsedS!.Value), m.WinnerS, 9);
     }
 }
+
+public class WindBinTests
+{
+    [Fact]
+    public void TheCrossoverIsWhereTheBinnedDifferenceChangesSign()
+    {
+        // A difference that is +20 s at 9 kn and -20 s at 13 kn (bin centres) crosses zero at 11 kn by linear interpolation.
+        var pairs = new List<(double, double)> { (8.5, 19), (9.5, 21), (12.2, -21), (13.8, -19) };
+        var bins = WindBins.Of(pairs, 2);
+        Assert.Equal(2, bins.Count);
+        Assert.Equal((8, 10, 2, 20.0), (bins[0].LowKn, bins[0].HighKn, bins[0].Races, bins[0].MeanDiffS));
+        var cross = Assert.Single(WindBins.Crossovers(bins));
+        Assert.Equal(11, cross, 9);
+        Assert.Empty(WindBins.Crossovers(WindBins.Of([(8.5, 5), (13.0, 1)], 2)));
+    }
+
+    [Fact]
+    public void ARangeOfWindsIsDrawnPerRaceAndSharedByTheVariants()
+    {
+        string dir = Directory.CreateTempSubdirectory("cs-wind-").FullName;
+        File.WriteAllText(Path.Combine(dir, "race.toml"), EngineTestKit.SteadyWind(12) + "[race]\ntime_limit_s = 900\n[course]\nkind = \"windward-leeward\"\nbeat_m = 200\n" +
+            $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n");
+        File.WriteAllText(Path.Combine(dir, "exp.toml"), "scenario = \"race.toml\"\nraces = 20\nwind_min_kn = 8\nwind_max_kn = 20\n[variants.x]\nset = \"\"\n[variants.y]\nset = \"\"\n");
+        var spec = ExperimentFile.Load(Path.Combine(dir, "exp.toml"));
+        var winds = Enumerable.Range(0, 20).Select(spec.WindFor).ToArray();
+        Assert.All(winds, w => Assert.InRange(w, 8, 20));
+        Assert.True(winds.Max() - winds.Min() > 6, "the races span the range");
+        File.WriteAllText(Path.Combine(dir, "bad.toml"), "scenario = \"race.toml\"\nwind_min_kn = 8\n[variants.x]\nset = \"\"\n");
+        Assert.Contains("both wind_min_kn and wind_max_kn", Assert.Throws<CourseSim.Settings.SettingsException>(() => ExperimentFile.Load(Path.Combine(dir, "bad.toml"))).Message);
+        var rows = BatchRunner.Run(spec, Path.Combine(dir, "out"), 2, false);
+        var metrics = BatchRunner.ReadMetrics(spec, Path.Combine(dir, "out"));
+        foreach (var g in metrics.GroupBy(m => m.Race)) Assert.Single(g.Select(m => m.Line.Split(',')[7]).Distinct());
+        Assert.Equal(40, metrics.Count);
+        Assert.Equal(40, rows.Count);
+    }
+}
