@@ -89,7 +89,12 @@ public static class PolarCommand
     internal static string Slug(string name)
     {
         var sb = new StringBuilder();
-        foreach (char c in name.ToLowerInvariant()) sb.Append(char.IsLetterOrDigit(c) ? c : '-');
+        foreach (char c in name.ToLowerInvariant())
+        {
+            char o = char.IsLetterOrDigit(c) ? c : '-';
+            if (o == '-' && sb.Length > 0 && sb[^1] == '-') continue; // one dash for any run of other characters
+            sb.Append(o);
+        }
         return sb.ToString().Trim('-') is { Length: > 0 } s ? s : "setup";
     }
 
