@@ -93,10 +93,39 @@ public static class ExperimentReport
                 sb.Append(CultureInfo.InvariantCulture, $"| {p.A} - {p.B} | {p.Pairs} | {F(p.MeanDiffT.Estimate)} | {F(p.MeanDiffT.Low)} to {F(p.MeanDiffT.High)} | {F(p.MeanDiffBootstrap.Low)} to {F(p.MeanDiffBootstrap.High)} | {F(p.WinProbability.Estimate * 100, "0")} % | {(p.Significant ? "resolved" : $"not resolved: about {p.PairsNeeded} races needed")} |\n");
         }
         sb.Append("\nA difference is called resolved only when its 95 % interval excludes zero. A board that did not finish counts the time limit.\n\n");
+        if (spec.Variants.Count > 2) sb.Append(HeadToHead(spec, pairs));
         if (metrics is not null) sb.Append(Organisers(spec, rows, metrics));
         if (metrics is not null && !double.IsNaN(spec.WindMinKn)) sb.Append(Riders(spec, rows, metrics, pairs));
         sb.Append("> ").Append(Caution.Text).Append('\n');
         return sb.ToString();
+    }
+
+    /// <summary>
+    /// For coaches: a head-to-head matrix, the share of paired races where the row variant's focus board beat the
+    /// column's, with its 95 % Wilson interval, and a mark where the paired time difference is resolved.
+    /// </summary>
+    static string HeadToHead(ExperimentSpec spec, IReadOnlyList<PairSummary> pairs)
+    {
+        var names = spec.Variants.Select(v => v.Name).ToList();
+        var sb = new StringBuilder("## Head to head\n\nShare of paired races the row beat the column (95 % interval); * where the paired time difference is resolved.\n\n| row beats column | ");
+        sb.Append(string.Join(" | ", names)).Append(" |\n|").Append(string.Concat(Enumerable.Repeat("---|", names.Count + 1))).Append('\n');
+        foreach (var r in names)
+        {
+            sb.Append("| ").Append(r);
+            foreach (var c in names)
+            {
+                if (r == c) { sb.Append(" | -"); continue; }
+                var p = pairs.FirstOrDefault(x => x.A == r && x.B == c);
+                var q = pairs.FirstOrDefault(x => x.A == c && x.B == r);
+                string cell = p is not null ? Cell(p.WinProbability, p.Significant)
+                    : q is not null ? Cell(new Interval(1 - q.WinProbability.Estimate, 1 - q.WinProbability.High, 1 - q.WinProbability.Low), q.Significant) : "-";
+                sb.Append(" | ").Append(cell);
+            }
+            sb.Append(" |\n");
+        }
+        return sb.Append('\n').ToString();
+
+        static string Cell(Interval w, bool sig) => $"{F(w.Estimate * 100, "0")} % ({F(w.Low * 100, "0")}-{F(w.High * 100, "0")}){(sig ? " *" : "")}";
     }
 
     /// <summary>

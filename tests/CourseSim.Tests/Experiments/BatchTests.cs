@@ -220,3 +220,24 @@ public class WindBinTests
         Assert.Equal(40, rows.Count);
     }
 }
+
+public class ReportTests
+{
+    [Fact]
+    public void TheHeadToHeadMatrixMirrorsEachPair()
+    {
+        var variants = new[] { "x", "y", "z" }.Select(n => new Variant(n, [], null!)).ToList();
+        var spec = new ExperimentSpec("t", "", "", "a", variants, 10, 1, "");
+        Interval W(double e) => new(e, e - 0.2, e + 0.2);
+        var pairs = new List<PairSummary>
+        {
+            new("x", "y", 10, new Interval(-5, -8, -2), new Interval(-5, -8, -2), W(0.7), true, 10),
+            new("x", "z", 10, new Interval(1, -2, 4), new Interval(1, -2, 4), W(0.4), false, 50),
+            new("y", "z", 10, new Interval(2, -1, 5), new Interval(2, -1, 5), W(0.3), false, 60),
+        };
+        var md = CourseSim.Cli.Output.ExperimentReport.Markdown(spec, [], pairs, [], true);
+        Assert.Contains("| x | - | 70 % (50-90) * | 40 % (20-60) |", md);
+        Assert.Contains("| y | 30 % (10-50) * | - | 30 % (10-50) |", md);
+        Assert.Contains("| z | 60 % (40-80) | 70 % (50-90) | - |", md);
+    }
+}
