@@ -29,6 +29,8 @@ public static class CourseBuilder
         KeySpec.Text("course.order", "", "waypoints: the marks to pass, in order, separated by spaces; the last is the finish"),
         KeySpec.Number("course.marks.*.x_m", -50000, 50000, double.NaN, "waypoint: metres east of the origin"),
         KeySpec.Number("course.marks.*.y_m", -50000, 50000, double.NaN, "waypoint: metres north of the origin"),
+        KeySpec.Number("course.marks.*.bearing_deg", -360, 360, double.NaN, "waypoint, instead of x/y: bearing from the origin relative to the course axis (0 = straight upwind, 90 = to the right looking upwind), deg"),
+        KeySpec.Number("course.marks.*.distance_m", 0, 50000, double.NaN, "waypoint, with bearing_deg: distance from the origin, m"),
         KeySpec.Text("course.marks.*.rounding", "port", "waypoint: side the mark is left on", ["port", "starboard"]),
     ];
 
@@ -112,8 +114,20 @@ public static class CourseBuilder
                 var marks = new Dictionary<string, Mark>();
                 foreach (var m in known)
                 {
+                    bool xy = f.Has($"course.marks.{m}.x_m") || f.Has($"course.marks.{m}.y_m");
+                    bool polar = f.Has($"course.marks.{m}.bearing_deg") || f.Has($"course.marks.{m}.distance_m");
+                    if (xy && polar) throw f.ErrorAt($"course.marks.{m}.bearing_deg", $"mark '{m}': give x_m and y_m, or bearing_deg and distance_m, not both");
+                    if (polar)
+                    {
+                        if (!f.Has($"course.marks.{m}.bearing_deg") || !f.Has($"course.marks.{m}.distance_m"))
+                            throw f.ErrorAt($"course.marks.{m}.distance_m", $"mark '{m}' needs both bearing_deg and distance_m");
+                        // Relative to the course axis: the bearing is measured from straight upwind, clockwise.
+                        var dir = Vec2.FromBearing(axis + f.Number($"course.marks.{m}.bearing_deg"));
+                        marks[m] = new Mark(m, f.Number($"course.marks.{m}.distance_m") * dir);
+                        continue;
+                    }
                     if (!f.Has($"course.marks.{m}.x_m") || !f.Has($"course.marks.{m}.y_m"))
-                        throw f.ErrorAt($"course.marks.{m}.x_m", $"mark '{m}' needs both x_m and y_m");
+                        throw f.ErrorAt($"course.marks.{m}.x_m", $"mark '{m}' needs both x_m and y_m (or bearing_deg and distance_m)");
                     marks[m] = new Mark(m, new Vec2(f.Number($"course.marks.{m}.x_m"), f.Number($"course.marks.{m}.y_m")));
                 }
                 Vec2 prev = new(0, 0);

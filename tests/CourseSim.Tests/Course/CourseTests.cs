@@ -89,4 +89,18 @@ public class CourseTests
         Assert.Contains("zz", e.Message);
         Assert.Contains("marks defined: a", e.Message);
     }
+
+    [Fact]
+    public void WaypointsCanBeLaidByBearingAndDistanceFromTheWindAxis()
+    {
+        // Axis 270 (wind from the west): bearing 0 is straight upwind (west), 90 to the right looking upwind (north).
+        var c = Build("[course]\nkind = \"waypoints\"\naxis_deg = 270\norder = \"up right\"\n[course.marks.up]\nbearing_deg = 0\ndistance_m = 1000\n" +
+            "[course.marks.right]\nbearing_deg = 90\ndistance_m = 500\n");
+        Assert.Equal(-1000, c.Steps[0].Target.X, 6);
+        Assert.Equal(0, c.Steps[0].Target.Y, 6);
+        Assert.Equal(500, c.Steps[1].Line!.Mid.Y, 6);
+        Assert.Equal(0, c.Steps[1].Line!.Mid.X, 6);
+        var both = Assert.Throws<SettingsException>(() => Build("[course]\nkind = \"waypoints\"\norder = \"a\"\n[course.marks.a]\nx_m = 0\ny_m = 10\nbearing_deg = 5\ndistance_m = 10\n"));
+        Assert.Contains("not both", both.Message);
+    }
 }
