@@ -88,4 +88,25 @@ public static class RightOfWay
         double t = Math.Clamp(Vec2.Dot(mark - s, d) / Math.Max(Vec2.Dot(d, d), 1e-12), 0, 1);
         return (s + t * d - mark).Length <= r;
     }
+
+    /// <summary>Closest distance (m) between the hulls of two boards, each taken as the segment from stern to bow.</summary>
+    public static double HullDistance(in RuleBoard a, in RuleBoard b)
+    {
+        var p1 = a.Stern; var q1 = a.Bow; var p2 = b.Stern; var q2 = b.Bow;
+        if (Segment.Crosses(p1, q1, p2, q2, out _)) return 0;
+        return Math.Min(Math.Min(PointToSegment(p1, p2, q2), PointToSegment(q1, p2, q2)), Math.Min(PointToSegment(p2, p1, q1), PointToSegment(q2, p1, q1)));
+    }
+
+    /// <summary>
+    /// Contact: the hulls come closer than <paramref name="clearanceM"/> (the half-widths of the two boards and their rigs
+    /// swung out; about 1 m for two boards side by side, model value). RRS rule 14 asks every board to avoid it.
+    /// </summary>
+    public static bool Contact(in RuleBoard a, in RuleBoard b, double clearanceM = 1.0) => HullDistance(a, b) < clearanceM;
+
+    static double PointToSegment(Vec2 p, Vec2 a, Vec2 b)
+    {
+        var d = b - a;
+        double t = Math.Clamp(Vec2.Dot(p - a, d) / Math.Max(Vec2.Dot(d, d), 1e-12), 0, 1);
+        return (a + t * d - p).Length;
+    }
 }

@@ -81,4 +81,19 @@ public class RightOfWayTests
         Assert.True(RightOfWay.InZone(new RuleBoard(0, 3 * L + 1.0, 180, L), mark, L)); // bow 0.2 m inside
         Assert.False(RightOfWay.InZone(new RuleBoard(0, 3 * L + 1.4, 180, L), mark, L)); // bow 0.2 m outside
     }
+
+    [Fact]
+    public void ContactIsHullsCloserThanTheClearance()
+    {
+        var a = new RuleBoard(0, 0, 0, L);          // heading north, hull from y -1.2 to 1.2
+        var crossing = new RuleBoard(0, 0.5, 90, L); // across its bow
+        Assert.Equal(0, RightOfWay.HullDistance(a, crossing), 12);
+        Assert.True(RightOfWay.Contact(a, crossing));
+        var abeam = new RuleBoard(3, 0, 0, L);       // 3 m to starboard, parallel
+        Assert.Equal(3, RightOfWay.HullDistance(a, abeam), 12);
+        Assert.False(RightOfWay.Contact(a, abeam));
+        var astern = new RuleBoard(0, -3.0, 0, L);   // bow 0.6 m behind a's stern
+        Assert.Equal(0.6, RightOfWay.HullDistance(a, astern), 9);
+        Assert.True(RightOfWay.Contact(a, astern));
+    }
 }
