@@ -57,8 +57,21 @@ public sealed partial class Race
 
     void EnsureTacticArrays()
     {
-        if (_lastTurn.Length != BoardCount) { _lastTurn = new double[BoardCount]; Array.Fill(_lastTurn, double.NegativeInfinity); _holding = new bool[BoardCount]; _going = new bool[BoardCount]; }
+        if (_lastTurn.Length == BoardCount) return;
+        _lastTurn = new double[BoardCount]; Array.Fill(_lastTurn, double.NegativeInfinity); _holding = new bool[BoardCount]; _going = new bool[BoardCount];
+        _headerTack = new bool[BoardCount]; _headerDeg = new double[BoardCount]; _minTackS = new double[BoardCount];
+        _meanS = new double[BoardCount]; _meanFrom = new double[BoardCount];
+        for (int b = 0; b < BoardCount; b++)
+        {
+            var e = Setup.Boards[b];
+            _headerTack[b] = e.Tactic == "header-tack";
+            _headerDeg[b] = e.Param("header_deg", 5); _minTackS[b] = e.Param("min_tack_s", 20); _meanS[b] = e.Param("mean_s", 90);
+            _meanFrom[b] = double.NaN;
+        }
     }
+
+    bool[] _headerTack = [];
+    double[] _headerDeg = [], _minTackS = [], _meanS = [], _meanFrom = [];
 
     void DecideOne(int b, in Pose pose, in SensedWind sw, ref Intent it, in RaceStatus st, in ManoeuvreState man, double speed)
     {
@@ -114,14 +127,39 @@ public sealed partial class Race
                 heading = LegHeading(b, p, _wait[b], tws, from, tack, mayTurn);
                 break;
             default:
-                heading = LegHeading(b, p, AimPoint(st.NextStep, p), tws, from, tack, mayTurn);
+            {
+                var aim = AimPoint(st.NextStep, p);
+                heading = LegHeading(b, p, aim, tws, from, tack, mayTurn);
+                if (_headerTack[b] && HeaderTack(b, p, aim, tws, from, tack)) heading = Unit.WrapRadPi(Unit.DegToRad(from) + tack * _rigs[b].BestTwa(tws, true));
                 break;
+            }
+        }
+        if (_headerTack[b])
+        {
+            // The rider's running mean of the wind direction, against which a header is judged.
+            double k = Math.Min(1, _decisionS / _meanS[b]);
+            _meanFrom[b] = double.IsNaN(_meanFrom[b]) ? from : Unit.WrapDeg360(_meanFrom[b] + k * Unit.WrapDeg180(from - _meanFrom[b]));
         }
         if (Math.Sign(SignedAngle(from, heading)) != tack) _lastTurn[b] = Time;
         it.Heading = heading; it.Power = power;
         it.TargetSpeed = _rigs[b].Speed(tws, SignedAngle(from, heading));
     }
 
+
+    /// <summary>
+    /// "header-tack": on a beat, tack when the wind has headed by header_deg or more against the rider's running mean
+    /// (starboard tack is headed when the wind backs, port when it veers), no sooner than min_tack_s after the last
+    /// tack; laylines still apply (the heading already chosen covers them).
+    /// </summary>
+    bool HeaderTack(int b, Vec2 p, Vec2 aim, double tws, double fromDeg, int tack)
+    {
+        if (double.IsNaN(_meanFrom[b]) || Time - _lastTurn[b] < _minTackS[b]) return false;
+        var d = aim - p;
+        double direct = Unit.WrapRadPi(Unit.DegToRad(fromDeg) - Unit.DegToRad(d.Bearing));
+        if (Math.Abs(direct) >= _rigs[b].BestTwa(tws, true)) return false; // not beating
+        double shift = Unit.WrapDeg180(fromDeg - _meanFrom[b]); // positive: veered
+        return tack > 0 ? shift <= -_headerDeg[b] : shift >= _headerDeg[b];
+    }
 
     /// <summary>
     /// Where a rider aims for step i. A mark is approached by an entry point beside it on the side it is to be left

@@ -7,7 +7,12 @@ using CourseSim.Wind;
 namespace CourseSim.Engine;
 
 /// <summary>One board of the fleet as the scenario gives it.</summary>
-public sealed record BoardEntry(string Id, string Name, Equipment Equipment, string Tactic, double LinePosition, int Line);
+public sealed record BoardEntry(string Id, string Name, Equipment Equipment, string Tactic, double LinePosition, int Line,
+    IReadOnlyDictionary<string, double>? Params = null)
+{
+    /// <summary>A tactic parameter, or its default.</summary>
+    public double Param(string name, double fallback) => Params is not null && Params.TryGetValue(name, out var v) ? v : fallback;
+}
 
 /// <summary>Race settings: the step, the start sequence, the time limit and what is recorded.</summary>
 public sealed record RaceSettings
@@ -41,7 +46,22 @@ public sealed record RaceSetup(string Name, string Description, string VenueName
 public static class ScenarioFile
 {
     /// <summary>Tactics the engine knows; the tactics issue adds more.</summary>
-    public static readonly string[] Tactics = ["vmg-layline"];
+    public static readonly string[] Tactics = ["vmg-layline", "header-tack"];
+
+    /// <summary>Each tactic's parameters: name, accepted range, default, meaning.</summary>
+    public static readonly IReadOnlyDictionary<string, (double Min, double Max, double Default, string Help)[]> TacticParams =
+        new Dictionary<string, (double, double, double, string)[]>
+        {
+            ["vmg-layline"] = [],
+            ["header-tack"] =
+            [
+                (1, 45, 5, "header_deg: tack when the wind has headed this much against the rider's running mean, deg"),
+                (5, 600, 20, "min_tack_s: least time between tacks, s"),
+                (10, 1200, 90, "mean_s: time constant of the rider's running mean of the wind direction, s"),
+            ],
+        };
+
+    static string ParamName((double, double, double, string Help) p) => p.Help[..p.Help.IndexOf(':')];
 
     public static readonly SettingsSchema Schema = new("scenario",
     [
@@ -67,6 +87,7 @@ public static class ScenarioFile
         KeySpec.Text("boards.*.set", "", "equipment overrides for this board, 'table.key=value' separated by ';'"),
         KeySpec.Text("boards.*.tactic", "vmg-layline", "the board's tactic", Tactics),
         KeySpec.Derived("boards.*.line_position", 0, 1, "where on the start line the rider aims: 0 pin (left) end .. 1 right end; default: spread"),
+        KeySpec.Derived("boards.*.params.*", -1e6, 1e6, "a parameter of the board's tactic (docs/engine.md lists each tactic's)"),
     ]);
 
     public static SettingsFile Load(string path, IEnumerable<string>? overrides = null) => SettingsFile.Load(path, Schema, overrides);
@@ -115,7 +136,22 @@ public static class ScenarioFile
             if (sets.Length > 0) eq = eq with { Name = eq.Name + " (adjusted)" };
             string name = f.Text($"boards.{id}.name") is { Length: > 0 } n ? n : eq.Name;
             double pos = f.Has($"boards.{id}.line_position") ? f.Number($"boards.{id}.line_position") : (i + 0.5) / ids.Count;
-            boards.Add(new BoardEntry(id, name, eq, f.Text($"boards.{id}.tactic"), pos, f.Raw(key)?.Line ?? 0));
+            string tactic = f.Text($"boards.{id}.tactic");
+            var known = TacticParams[tactic];
+            var prm = new Dictionary<string, double>();
+            string prefix = $"boards.{id}.params.";
+            foreach (var k in f.KeysGiven.Where(k => k.StartsWith(prefix, StringComparison.Ordinal)).Order(StringComparer.Ordinal))
+            {
+                string pn = k[prefix.Length..];
+                var spec = known.FirstOrDefault(q => ParamName(q) == pn);
+                if (spec.Help is null)
+                    throw f.ErrorAt(k, $"tactic '{tactic}' has no parameter '{pn}'; its parameters: {(known.Length == 0 ? "none" : string.Join(", ", known.Select(ParamName)))}");
+                double val = f.Number(k);
+                if (val < spec.Min || val > spec.Max) throw f.ErrorAt(k, $"{val} is out of range for {pn}: accepted {spec.Min} to {spec.Max} ({spec.Help})");
+                prm[pn] = val;
+            }
+            foreach (var q in known) prm.TryAdd(ParamName(q), q.Default);
+            boards.Add(new BoardEntry(id, name, eq, tactic, pos, f.Raw(key)?.Line ?? 0, prm));
         }
         return new RaceSetup(f.Text("name"), f.Text("description"), f.Text("venue.name"), f.Number("venue.lat_deg"), f.Number("venue.lon_deg"),
             wind, race, course, boards, f.Path);
