@@ -38,19 +38,40 @@ public static class BatchCommand
         ConsoleCancelEventHandler onCancel = (_, e) => { e.Cancel = true; cts.Cancel(); stderr.WriteLine("batch: stopping after the races under way; the report covers what finished"); };
         Console.CancelKeyPress += onCancel;
         var clock = Stopwatch.StartNew();
-        IReadOnlyList<RaceRow> rows;
+        IReadOnlyList<RaceRow> rows = [];
         try
         {
-            int total = spec.Races * spec.Variants.Count, lastShown = -1;
-            rows = BatchRunner.Run(spec, dir, threads, resume, p =>
+            bool interactive = stdout == Console.Out && !Console.IsOutputRedirected && !Console.IsErrorRedirected;
+            if (interactive)
             {
-                int tenth = p.Total == 0 ? 10 : p.Done * 10 / p.Total;
-                if (tenth == lastShown) return;
-                lastShown = tenth;
-                double rate = (p.Done - p.Resumed) / Math.Max(clock.Elapsed.TotalSeconds, 1e-9);
-                double left = rate > 0 ? (p.Total - p.Done) / rate : double.NaN;
-                lock (stderr) stderr.WriteLine($"batch: {p.Done}/{p.Total} races ({rate:0.0} races/s{(double.IsNaN(left) ? "" : $", about {left:0} s left")})");
-            }, cts.Token);
+                // A live bar: races done, races per second, time left.
+                AnsiConsole.Progress().AutoClear(true)
+                    .Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new RemainingTimeColumn())
+                    .Start(ctx =>
+                    {
+                        var task = ctx.AddTask("racing", maxValue: Math.Max(1, spec.Races * spec.Variants.Count));
+                        rows = BatchRunner.Run(spec, dir, threads, resume, p =>
+                        {
+                            double rate = (p.Done - p.Resumed) / Math.Max(clock.Elapsed.TotalSeconds, 1e-9);
+                            task.Description = $"{p.Done}/{p.Total} races, {rate:0.0}/s";
+                            task.Value = p.Done;
+                        }, cts.Token);
+                    });
+            }
+            else
+            {
+                int lastShown = -1;
+                // Redirected output: a plain line every 10 % on the error stream (the bar would print nothing).
+                rows = BatchRunner.Run(spec, dir, threads, resume, p =>
+                {
+                    int tenth = p.Total == 0 ? 10 : p.Done * 10 / p.Total;
+                    if (tenth == lastShown) return;
+                    lastShown = tenth;
+                    double rate = (p.Done - p.Resumed) / Math.Max(clock.Elapsed.TotalSeconds, 1e-9);
+                    double left = rate > 0 ? (p.Total - p.Done) / rate : double.NaN;
+                    lock (stderr) stderr.WriteLine($"batch: {p.Done}/{p.Total} races ({rate:0.0} races/s{(double.IsNaN(left) ? "" : $", about {left:0} s left")})");
+                }, cts.Token);
+            }
         }
         finally { Console.CancelKeyPress -= onCancel; }
         var (variants, pairs) = Comparison.Of(spec, rows, spec.MasterSeed);
