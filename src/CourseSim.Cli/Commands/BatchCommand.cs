@@ -88,7 +88,8 @@ public static class BatchCommand
                 win_share_low = v.WinShare.Low, win_share_high = v.WinShare.High, mean_place = v.MeanPlace }),
             pairs = pairs.Select(p => new { a = p.A, b = p.B, races = p.Pairs, mean_diff_s = p.MeanDiffT.Estimate, ci_low_s = p.MeanDiffT.Low, ci_high_s = p.MeanDiffT.High,
                 bootstrap_low_s = p.MeanDiffBootstrap.Low, bootstrap_high_s = p.MeanDiffBootstrap.High, p_a_beats_b = p.WinProbability.Estimate,
-                significant = p.Significant, races_needed = p.PairsNeeded }),
+                significant = p.Significant, races_needed = p.PairsNeeded,
+                mean_place_diff = p.PlaceDiffT?.Estimate, place_ci_low = p.PlaceDiffT?.Low, place_ci_high = p.PlaceDiffT?.High }),
             caution = Caution.Text,
         }) + "\n");
         var md = ExperimentReport.Markdown(spec, variants, pairs, rows, !cts.IsCancellationRequested, BatchRunner.ReadMetrics(spec, dir));

@@ -88,9 +88,12 @@ public static class ExperimentReport
         }
         if (pairs.Count > 0)
         {
-            sb.Append("\n| a - b | races | mean difference (s) | 95 % t interval | bootstrap interval | a faster in | verdict |\n|---|---|---|---|---|---|---|\n");
+            sb.Append("\n| a - b | races | mean difference (s) | 95 % t interval | bootstrap interval | place difference (95 %) | a faster in | verdict |\n|---|---|---|---|---|---|---|---|\n");
             foreach (var p in pairs)
-                sb.Append(CultureInfo.InvariantCulture, $"| {p.A} - {p.B} | {p.Pairs} | {F(p.MeanDiffT.Estimate)} | {F(p.MeanDiffT.Low)} to {F(p.MeanDiffT.High)} | {F(p.MeanDiffBootstrap.Low)} to {F(p.MeanDiffBootstrap.High)} | {F(p.WinProbability.Estimate * 100, "0")} % | {(p.Significant ? "resolved" : $"not resolved: about {p.PairsNeeded} races needed")} |\n");
+            {
+                string place = p.PlaceDiffT is Interval pd ? $"{F(pd.Estimate, "0.00")} ({F(pd.Low, "0.00")} to {F(pd.High, "0.00")})" : "-";
+                sb.Append(CultureInfo.InvariantCulture, $"| {p.A} - {p.B} | {p.Pairs} | {F(p.MeanDiffT.Estimate)} | {F(p.MeanDiffT.Low)} to {F(p.MeanDiffT.High)} | {F(p.MeanDiffBootstrap.Low)} to {F(p.MeanDiffBootstrap.High)} | {place} | {F(p.WinProbability.Estimate * 100, "0")} % | {(p.Significant ? "resolved" : $"not resolved: about {p.PairsNeeded} races needed")} |\n");
+            }
         }
         sb.Append("\nA difference is called resolved only when its 95 % interval excludes zero. A board that did not finish counts the time limit.\n\n");
         if (spec.Variants.Count > 2) sb.Append(HeadToHead(spec, pairs));
