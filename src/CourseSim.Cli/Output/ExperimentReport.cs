@@ -161,6 +161,21 @@ public static class ExperimentReport
             double placeR = right.Where(r => r.Place is not null).Select(r => (double)r.Place!.Value).DefaultIfEmpty(double.NaN).Average();
             sb.Append(CultureInfo.InvariantCulture, $"| {v.Name} | {dur} | {legs} | {F(bias)} | {F(adv)} | {F(shareLeft * 100, "0")} %; {F(placeL)} / {F(placeR)} | {F(m.Average(f => P(f, 5)))} | {F(m.Average(f => P(f, 6)), "0.0")} |\n");
         }
+        if (!double.IsNaN(spec.TargetDurationS))
+        {
+            sb.Append(CultureInfo.InvariantCulture, $"\nTarget duration {F(spec.TargetDurationS / 60)} min: ");
+            var parts = new List<string>();
+            foreach (var v in spec.Variants)
+            {
+                var w = metrics.Where(x => x.Variant == v.Name).Select(x => x.Line.Split(',')[2]).Where(x => x.Length > 0)
+                    .Select(x => double.Parse(x, CultureInfo.InvariantCulture)).ToArray();
+                if (w.Length == 0) continue;
+                int within = w.Count(x => Math.Abs(x - spec.TargetDurationS) <= 0.1 * spec.TargetDurationS);
+                var share = Statistics.Wilson(within, w.Length);
+                parts.Add($"{v.Name} within 10 % of it in {F(share.Estimate * 100, "0")} % of races ({F(share.Low * 100, "0")}-{F(share.High * 100, "0")})");
+            }
+            sb.Append(string.Join("; ", parts)).Append(".\n");
+        }
         sb.Append("\nLine bias: the wind at the middle of the line at the signal against the line's square; advantage = line length x sin(bias). ")
           .Append("Side: the board's mean offset from the line start to the first mark while on the first leg.\n\n");
         return sb.ToString();

@@ -9,7 +9,8 @@ public sealed record Variant(string Name, IReadOnlyList<string> Sets, RaceSetup 
 
 /// <summary>An experiment: a base scenario, its variants, the number of races and the master seed.</summary>
 public sealed record ExperimentSpec(string Name, string Description, string ScenarioPath, string Focus, IReadOnlyList<Variant> Variants,
-    int Races, ulong MasterSeed, string SourcePath, bool CommonSeeds = true, double WindMinKn = double.NaN, double WindMaxKn = double.NaN)
+    int Races, ulong MasterSeed, string SourcePath, bool CommonSeeds = true, double WindMinKn = double.NaN, double WindMaxKn = double.NaN,
+    double TargetDurationS = double.NaN)
 {
     /// <summary>
     /// The mean wind of race i (kn) when the experiment spans a range of winds: drawn uniformly from the range with the
@@ -40,6 +41,7 @@ public static class ExperimentFile
         KeySpec.Number("seed", 0, 9007199254740991, 1, "master seed: race i of every variant gets the same seed from it"),
         KeySpec.Text("focus", "", "the board (its [boards.NAME] name) whose result the variants are compared on; default the first"),
         KeySpec.Text("seeds", "common", "common: race i of every variant has the same wind (paired); independent: each variant its own", ["common", "independent"]),
+        KeySpec.Derived("target_duration_s", 60, 36000, "the race duration organisers aim at (winner's time), s: the report says how the variants meet it"),
         KeySpec.Derived("wind_min_kn", 0, 45, "with wind_max_kn: race i's mean wind is drawn from this range (the same for every variant), kn"),
         KeySpec.Derived("wind_max_kn", 0, 45, "upper end of the range of mean winds, kn"),
         KeySpec.Text("variants.*.set", "", "scenario overrides for this variant, 'table.key=value' separated by ';'"),
@@ -80,6 +82,6 @@ public static class ExperimentFile
         if (wMin > wMax) throw f.ErrorAt("wind_max_kn", $"must be at least wind_min_kn ({wMin})");
         int n = races ?? (int)f.Number("races");
         return new ExperimentSpec(f.Text("name") is { Length: > 0 } nm ? nm : Path.GetFileNameWithoutExtension(path), f.Text("description"),
-            full, focus, variants, n, (ulong)f.Number("seed"), f.Path, f.Text("seeds") == "common", wMin, wMax);
+            full, focus, variants, n, (ulong)f.Number("seed"), f.Path, f.Text("seeds") == "common", wMin, wMax, f.Number("target_duration_s"));
     }
 }
