@@ -96,3 +96,37 @@ public class BatchCliTests
         Assert.Equal(2, CourseSim.Cli.Program.Run(["batch", exp, "--races", "0"], new StringWriter(), new StringWriter()));
     }
 }
+
+public class BatchKillTests
+{
+    /// <summary>
+    /// A batch process killed part way (not cancelled: killed) and then resumed ends with the same results as an
+    /// uninterrupted batch: each race is written whole, through a temporary file and a rename, as it ends.
+    /// </summary>
+    [Fact]
+    public void AKilledBatchResumesToTheSameResults()
+    {
+        string exp = Path.Combine(RepoRoot.Path, "scenarios", "experiments", "korrin-bay-beat-length.toml");
+        string cli = Path.Combine(AppContext.BaseDirectory, "coursesim.dll");
+        string killed = Directory.CreateTempSubdirectory("cs-kill-").FullName, whole = Directory.CreateTempSubdirectory("cs-whole-").FullName;
+        var psi = new System.Diagnostics.ProcessStartInfo("dotnet", $"\"{cli}\" batch \"{exp}\" --races 8 --threads 1 --out \"{killed}\"")
+        { RedirectStandardOutput = true, RedirectStandardError = true };
+        using (var p = System.Diagnostics.Process.Start(psi)!)
+        {
+            var runs = Path.Combine(killed, "runs");
+            var deadline = DateTime.UtcNow.AddSeconds(120);
+            while (DateTime.UtcNow < deadline && !p.HasExited &&
+                   (!Directory.Exists(runs) || Directory.GetFiles(runs, "??????.csv", SearchOption.AllDirectories).Length < 3))
+                Thread.Sleep(50);
+            Assert.False(p.HasExited, "the batch ended before it could be killed");
+            p.Kill(entireProcessTree: true);
+            p.WaitForExit();
+        }
+        int done = Directory.GetFiles(Path.Combine(killed, "runs"), "??????.csv", SearchOption.AllDirectories).Length;
+        Assert.InRange(done, 3, 15);
+        Assert.Equal(0, CourseSim.Cli.Program.Run(["batch", exp, "--races", "8", "--threads", "2", "--out", killed, "--resume"], new StringWriter(), new StringWriter()));
+        Assert.Equal(0, CourseSim.Cli.Program.Run(["batch", exp, "--races", "8", "--threads", "2", "--out", whole], new StringWriter(), new StringWriter()));
+        Assert.Equal(File.ReadAllText(Path.Combine(whole, "results.csv")), File.ReadAllText(Path.Combine(killed, "results.csv")));
+        Assert.Equal(File.ReadAllText(Path.Combine(whole, "report.md")), File.ReadAllText(Path.Combine(killed, "report.md")));
+    }
+}
