@@ -92,9 +92,11 @@ public static class BatchCommand
                 mean_place_diff = p.PlaceDiffT?.Estimate, place_ci_low = p.PlaceDiffT?.Low, place_ci_high = p.PlaceDiffT?.High }),
             caution = Caution.Text,
         }) + "\n");
-        var md = ExperimentReport.Markdown(spec, variants, pairs, rows, !cts.IsCancellationRequested, BatchRunner.ReadMetrics(spec, dir));
+        var metrics = BatchRunner.ReadMetrics(spec, dir);
+        var md = ExperimentReport.Markdown(spec, variants, pairs, rows, !cts.IsCancellationRequested, metrics);
         AtomicFile.WriteAllText(Path.Combine(dir, "report.md"), md);
-        AtomicFile.WriteAllText(Path.Combine(dir, "report.html"), ExperimentReport.Html(spec, md, ExperimentReport.DurationChart(spec, rows), ExperimentReport.IntervalChart(pairs)));
+        AtomicFile.WriteAllText(Path.Combine(dir, "report.html"), ExperimentReport.Html(spec, md, ExperimentReport.DurationChart(spec, rows),
+            ExperimentReport.IntervalChart(pairs), ExperimentReport.SideChart(spec, rows), ExperimentReport.CrossoverChart(spec, rows, metrics, pairs)));
         var console = Terminal.For(stdout);
         var t = new Table().Border(TableBorder.Simple).Title($"[bold]{Markup.Escape(spec.Name)}[/]: {spec.Races} races per variant, focus {Markup.Escape(spec.Focus)}");
         t.AddColumn("variant"); t.AddColumn(new TableColumn("races").RightAligned()); t.AddColumn(new TableColumn("mean time").RightAligned());

@@ -45,6 +45,55 @@ public static class ExperimentReport
         return plt.GetImageBytes(900, 450, ImageFormat.Png);
     }
 
+    /// <summary>Side fairness: mean place of the boards that went left and right on the first beat, per variant.</summary>
+    public static byte[] SideChart(ExperimentSpec spec, IReadOnlyList<RaceRow> rows)
+    {
+        var plt = new Plot();
+        var bars = new List<Bar>();
+        for (int i = 0; i < spec.Variants.Count; i++)
+        {
+            var vr = rows.Where(r => r.Variant == spec.Variants[i].Name && r.Place is not null).ToList();
+            foreach (var (side, k) in new[] { ("left", 0), ("right", 1) })
+            {
+                var places = vr.Where(r => r.FirstBeatSide == side).Select(r => (double)r.Place!.Value).ToList();
+                if (places.Count == 0) continue;
+                bars.Add(new Bar { Position = 3 * i + k, Value = places.Average(), FillColor = PolarCharts.Palette[k], Label = $"{side} {places.Average():0.0}" });
+            }
+        }
+        var b = plt.Add.Bars(bars);
+        b.ValueLabelStyle.FontSize = 12;
+        plt.Axes.Bottom.SetTicks(Enumerable.Range(0, spec.Variants.Count).Select(i => 3.0 * i + 0.5).ToArray(), spec.Variants.Select(v => v.Name).ToArray());
+        plt.Title("Side fairness: mean place of boards that went left and right on the first beat (lower is better)");
+        plt.YLabel("mean place");
+        plt.Axes.Margins(bottom: 0);
+        return plt.GetImageBytes(900, 420, ImageFormat.Png);
+    }
+
+    /// <summary>Riders: the paired difference of the focus board's time by the race's mean wind, one line per pair.</summary>
+    public static byte[]? CrossoverChart(ExperimentSpec spec, IReadOnlyList<RaceRow> rows, IReadOnlyList<(string Variant, int Race, string Line)> metrics,
+        IReadOnlyList<PairSummary> pairs)
+    {
+        if (double.IsNaN(spec.WindMinKn) || pairs.Count == 0) return null;
+        var wind = metrics.GroupBy(m => m.Race).ToDictionary(g => g.Key, g => double.Parse(g.First().Line.Split(',')[7], CultureInfo.InvariantCulture));
+        double Time(RaceRow r) => r.Finished && r.ElapsedS is double e ? e : r.DurationS;
+        var plt = new Plot();
+        for (int i = 0; i < pairs.Count; i++)
+        {
+            var p = pairs[i];
+            var a = rows.Where(r => r.Variant == p.A && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
+            var b = rows.Where(r => r.Variant == p.B && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
+            var bins = WindBins.Of(a.Keys.Intersect(b.Keys).Where(wind.ContainsKey).Select(k => (wind[k], Time(a[k]) - Time(b[k]))), 2);
+            if (bins.Count == 0) continue;
+            var line = plt.Add.ScatterLine(bins.Select(x => 0.5 * (x.LowKn + x.HighKn)).ToArray(), bins.Select(x => x.MeanDiffS).ToArray());
+            line.Color = PolarCharts.Palette[i % PolarCharts.Palette.Length]; line.LineWidth = 2; line.MarkerSize = 7; line.LegendText = $"{p.A} - {p.B}";
+        }
+        var zero = plt.Add.HorizontalLine(0); zero.Color = Colors.Gray; zero.LinePattern = LinePattern.Dashed;
+        plt.Title("Paired difference of the focus board's time by the race's mean wind (2-kn bins)");
+        plt.XLabel("mean wind, kn"); plt.YLabel("seconds (negative: the first variant faster)");
+        plt.ShowLegend(Alignment.UpperRight);
+        return plt.GetImageBytes(900, 450, ImageFormat.Png);
+    }
+
     public static byte[] IntervalChart(IReadOnlyList<PairSummary> pairs)
     {
         var plt = new Plot();
@@ -208,7 +257,7 @@ public static class ExperimentReport
     }
 
     /// <summary>The HTML page: the Markdown's content as tables, with the charts embedded.</summary>
-    public static string Html(ExperimentSpec spec, string markdown, byte[] durations, byte[] intervals)
+    public static string Html(ExperimentSpec spec, string markdown, byte[] durations, byte[] intervals, byte[]? sides = null, byte[]? crossover = null)
     {
         var sb = new StringBuilder();
         sb.Append("<!doctype html><html lang=\"en\"><head><meta charset=\"utf-8\"><title>").Append(WebUtility.HtmlEncode(spec.Name)).Append("</title>");
@@ -238,6 +287,8 @@ public static class ExperimentReport
         }
         sb.Append("<h2>Race durations</h2><img alt=\"race durations\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(durations)).Append("\">");
         sb.Append("<h2>Paired differences</h2><img alt=\"paired differences\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(intervals)).Append("\">");
+        if (sides is not null) sb.Append("<h2>Side fairness</h2><img alt=\"side fairness\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(sides)).Append("\">");
+        if (crossover is not null) sb.Append("<h2>By wind speed</h2><img alt=\"difference by wind speed\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(crossover)).Append("\">");
         sb.Append("</body></html>\n");
         return sb.ToString();
     }
