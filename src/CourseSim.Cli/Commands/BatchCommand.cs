@@ -89,7 +89,8 @@ public static class BatchCommand
             pairs = pairs.Select(p => new { a = p.A, b = p.B, races = p.Pairs, mean_diff_s = p.MeanDiffT.Estimate, ci_low_s = p.MeanDiffT.Low, ci_high_s = p.MeanDiffT.High,
                 bootstrap_low_s = p.MeanDiffBootstrap.Low, bootstrap_high_s = p.MeanDiffBootstrap.High, p_a_beats_b = p.WinProbability.Estimate,
                 significant = p.Significant, races_needed = p.PairsNeeded,
-                mean_place_diff = p.PlaceDiffT?.Estimate, place_ci_low = p.PlaceDiffT?.Low, place_ci_high = p.PlaceDiffT?.High }),
+                mean_place_diff = p.PlaceDiffT?.Estimate, place_ci_low = p.PlaceDiffT?.Low, place_ci_high = p.PlaceDiffT?.High,
+                place_bootstrap_low = p.PlaceDiffBootstrap?.Low, place_bootstrap_high = p.PlaceDiffBootstrap?.High }),
             caution = Caution.Text,
         }) + "\n");
         var metrics = BatchRunner.ReadMetrics(spec, dir);

@@ -140,7 +140,7 @@ public static class ExperimentReport
             sb.Append("\n| a - b | races | mean difference (s) | 95 % t interval | bootstrap interval | place difference (95 %) | a faster in | verdict |\n|---|---|---|---|---|---|---|---|\n");
             foreach (var p in pairs)
             {
-                string place = p.PlaceDiffT is Interval pd ? $"{F(pd.Estimate, "0.00")} ({F(pd.Low, "0.00")} to {F(pd.High, "0.00")})" : "-";
+                string place = p.PlaceDiffT is Interval pd ? $"{F(pd.Estimate, "0.00")} ({F(pd.Low, "0.00")} to {F(pd.High, "0.00")}{(p.PlaceDiffBootstrap is Interval pb ? $"; bootstrap {F(pb.Low, "0.00")} to {F(pb.High, "0.00")}" : "")})" : "-";
                 sb.Append(CultureInfo.InvariantCulture, $"| {p.A} - {p.B} | {p.Pairs} | {F(p.MeanDiffT.Estimate)} | {F(p.MeanDiffT.Low)} to {F(p.MeanDiffT.High)} | {F(p.MeanDiffBootstrap.Low)} to {F(p.MeanDiffBootstrap.High)} | {place} | {F(p.WinProbability.Estimate * 100, "0")} % | {(p.Significant ? "resolved" : $"not resolved: about {p.PairsNeeded} races needed")} |\n");
             }
         }
@@ -187,7 +187,7 @@ public static class ExperimentReport
     static string Organisers(ExperimentSpec spec, IReadOnlyList<RaceRow> rows, IReadOnlyList<(string Variant, int Race, string Line)> metrics)
     {
         var sb = new StringBuilder("## For race organisers\n\n");
-        sb.Append("| variant | winner's time, median (P10-P90), min | mean leg times of finishers, min | line bias, mean abs (deg) | line advantage, mean (m) | first beat: share left; mean place left / right | peak boards within 30 m of a mark, mean | roundings within 5 s of the one before, per race |\n|---|---|---|---|---|---|---|---|\n");
+        sb.Append("| variant | winner's time, median (P10-P90), min | mean leg times of finishers, min | line bias, mean abs (deg) | line advantage, mean (m) | first beat: share left; mean place left / right | peak boards within 30 m of a mark, mean | roundings within 5 s of the one before, per race | contacts per race |\n|---|---|---|---|---|---|---|---|---|\n");
         foreach (var v in spec.Variants)
         {
             var m = metrics.Where(x => x.Variant == v.Name).Select(x => x.Line.Split(',')).ToList();
@@ -208,7 +208,7 @@ public static class ExperimentReport
             double shareLeft = (left.Count + right.Count) == 0 ? double.NaN : (double)left.Count / (left.Count + right.Count);
             double placeL = left.Where(r => r.Place is not null).Select(r => (double)r.Place!.Value).DefaultIfEmpty(double.NaN).Average();
             double placeR = right.Where(r => r.Place is not null).Select(r => (double)r.Place!.Value).DefaultIfEmpty(double.NaN).Average();
-            sb.Append(CultureInfo.InvariantCulture, $"| {v.Name} | {dur} | {legs} | {F(bias)} | {F(adv)} | {F(shareLeft * 100, "0")} %; {F(placeL)} / {F(placeR)} | {F(m.Average(f => P(f, 5)))} | {F(m.Average(f => P(f, 6)), "0.0")} |\n");
+            sb.Append(CultureInfo.InvariantCulture, $"| {v.Name} | {dur} | {legs} | {F(bias)} | {F(adv)} | {F(shareLeft * 100, "0")} %; {F(placeL)} / {F(placeR)} | {F(m.Average(f => P(f, 5)))} | {F(m.Average(f => P(f, 6)), "0.0")} | {F(m.Average(f => f.Length > 8 ? P(f, 8) : double.NaN), "0.00")} |\n");
         }
         if (!double.IsNaN(spec.TargetDurationS))
         {
@@ -226,7 +226,8 @@ public static class ExperimentReport
             sb.Append(string.Join("; ", parts)).Append(".\n");
         }
         sb.Append("\nLine bias: the wind at the middle of the line at the signal against the line's square; advantage = line length x sin(bias). ")
-          .Append("Side: the board's mean offset from the line start to the first mark while on the first leg.\n\n");
+          .Append("Side: the board's mean offset from the line start to the first mark while on the first leg. ")
+          .Append("Contacts: pairs of boards whose hulls come within 1 m at a recorded instant (the incidents the right-of-way rules will judge; no rules are applied yet).\n\n");
         return sb.ToString();
     }
 
@@ -250,8 +251,20 @@ public static class ExperimentReport
             foreach (var bin in bins) sb.Append(CultureInfo.InvariantCulture, $"| {F(bin.LowKn, "0")}-{F(bin.HighKn, "0")} | {bin.Races} | {F(bin.MeanDiffS)} |\n");
             var cross = WindBins.Crossovers(bins);
             sb.Append('\n').Append(cross.Count == 0 ? $"No crossover in {F(spec.WindMinKn, "0")}-{F(spec.WindMaxKn, "0")} kn." :
-                "Crossover near " + string.Join(", ", cross.Select(c => F(c, "0.0") + " kn")) + " (where the binned mean changes sign; few races per bin make it rough).")
-              .Append(" Compare with `coursesim polar` for the two set-ups.\n\n");
+                "Crossover near " + string.Join(", ", cross.Select(c => F(c, "0.0") + " kn")) + " (where the binned mean changes sign; few races per bin make it rough).");
+            // Beside it, the steady-state polars of the focus board's set-up in the two variants (docs/polar.md).
+            var ea = spec.Variants.First(v => v.Name == p.A).Setup.Boards.First(x => x.Id == spec.Focus).Equipment;
+            var eb = spec.Variants.First(v => v.Name == p.B).Setup.Boards.First(x => x.Id == spec.Focus).Equipment;
+            if (ea != eb)
+            {
+                double[] winds = Enumerable.Range(0, 14).Select(i => 6.0 + 2 * i).ToArray();
+                double[] angles = Enumerable.Range(0, 31).Select(i => 30.0 + 5 * i).ToArray();
+                var cmp = CourseSim.Equilibrium.PolarComparison.Of(CourseSim.Equilibrium.Polar.Compute(ea, winds, angles), CourseSim.Equilibrium.Polar.Compute(eb, winds, angles));
+                sb.Append(" The polars of the two set-ups cross at: ")
+                  .Append(cmp.Crossovers.Count == 0 ? "none in 6-32 kn" : string.Join("; ", cmp.Crossovers.Select(c => $"{c.Measure} {F(c.TwsKn, "0.0")} kn ({c.FasterAbove} faster above)")))
+                  .Append('.');
+            }
+            sb.Append("\n\n");
         }
         return sb.ToString();
     }

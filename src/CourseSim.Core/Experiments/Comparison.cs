@@ -5,7 +5,7 @@ public sealed record VariantSummary(string Name, int Races, double MeanElapsedS,
 
 /// <summary>A pair of variants compared race by race on the focus board.</summary>
 public sealed record PairSummary(string A, string B, int Pairs, Interval MeanDiffT, Interval MeanDiffBootstrap, Interval WinProbability,
-    bool Significant, int PairsNeeded, Interval? PlaceDiffT = null);
+    bool Significant, int PairsNeeded, Interval? PlaceDiffT = null, Interval? PlaceDiffBootstrap = null);
 
 /// <summary>
 /// Paired comparison of variants on the focus board's time (groundwork for the experiments issue). A board that did not
@@ -45,7 +45,7 @@ public static class Comparison
                 double PlaceOf(RaceRow r) => r.Place ?? (rows.Count(x => x.Variant == r.Variant && x.Race == r.Race && x.Place is not null) + 1);
                 var dp = common.Select(k => PlaceOf(a[k]) - PlaceOf(b[k])).ToArray();
                 pairs.Add(new PairSummary(spec.Variants[i].Name, spec.Variants[j].Name, common.Count, t, boot, Statistics.WinProbability(ta, tb),
-                    t.ExcludesZero, Statistics.PairsNeeded(t.Estimate, sd), Statistics.PairedT(dp)));
+                    t.ExcludesZero, Statistics.PairsNeeded(t.Estimate, sd), Statistics.PairedT(dp), Statistics.BootstrapMean(dp, seed ^ (ulong)(i * 1000 + j) ^ 0x9A))); 
             }
         return (variants, pairs);
     }
