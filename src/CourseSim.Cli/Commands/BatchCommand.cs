@@ -9,8 +9,8 @@ namespace CourseSim.Cli.Commands;
 
 /// <summary>
 /// <c>coursesim batch EXPERIMENT [--races N] [--threads K] [--out DIR] [--resume]</c>: many races of each variant, in
-/// parallel, paired by seed; results.csv and summary.json (groundwork for the experiments issue: the HTML and Markdown
-/// reports and the per-user sections are still to come).
+/// parallel, paired by seed; results.csv, results.parquet, summary.json and the report (Markdown and HTML) with its
+/// sections for organisers, coaches and riders (docs/experiments.md).
 /// </summary>
 public static class BatchCommand
 {

@@ -7,7 +7,7 @@ using ScottPlot;
 namespace CourseSim.Cli.Output;
 
 /// <summary>
-/// The experiment report (first part): Markdown and one self-contained HTML page (charts embedded as PNG) with the
+/// The experiment report: Markdown and one self-contained HTML page (charts embedded as PNG) with the
 /// variants, the paired differences and the distribution of race durations.
 /// </summary>
 public static class ExperimentReport

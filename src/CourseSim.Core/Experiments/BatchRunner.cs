@@ -59,7 +59,7 @@ public sealed record RaceRow(string Variant, int Race, ulong Seed, string BoardI
 public readonly record struct BatchProgress(int Done, int Total, int Resumed);
 
 /// <summary>
-/// Runs an experiment's races (groundwork for the experiments issue): every (variant, race) in parallel across
+/// Runs an experiment's races: every (variant, race) in parallel across
 /// <c>threads</c> workers, each race single-threaded and deterministic. Each finished race is written at once to its
 /// own file under DIR/runs/ (atomically), so an interrupted batch loses nothing and a resumed one skips what is there;
 /// the results are read back in (variant, race) order, so they are the same whatever the thread count.

@@ -8,7 +8,7 @@ public sealed record PairSummary(string A, string B, int Pairs, Interval MeanDif
     bool Significant, int PairsNeeded, Interval? PlaceDiffT = null, Interval? PlaceDiffBootstrap = null);
 
 /// <summary>
-/// Paired comparison of variants on the focus board's time (groundwork for the experiments issue). A board that did not
+/// Paired comparison of variants on the focus board's time. A board that did not
 /// finish counts the race's duration (the time limit) as its time, so it ranks behind every finisher.
 /// </summary>
 public static class Comparison

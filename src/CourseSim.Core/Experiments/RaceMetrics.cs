@@ -6,7 +6,7 @@ using CourseSim.Units;
 namespace CourseSim.Experiments;
 
 /// <summary>
-/// What an organiser asks of one race (groundwork for the experiments issue): how long it ran, how biased the start line
+/// What an organiser asks of one race: how long it ran, how biased the start line
 /// was, which side of the first beat each board took, and how boards bunched at the marks.
 /// </summary>
 public sealed record RaceMetrics(double WinnerS, double LineBiasDeg, double LineBiasM, double PeakAtMark, int CloseArrivals,

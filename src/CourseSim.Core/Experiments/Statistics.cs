@@ -11,7 +11,7 @@ public readonly record struct Interval(double Estimate, double Low, double High)
 }
 
 /// <summary>
-/// The statistics experiments report (groundwork for the experiments issue): Wilson score intervals for shares,
+/// The statistics experiments report: Wilson score intervals for shares,
 /// paired t intervals and percentile bootstrap intervals for paired differences, the chance one variant beats the
 /// other, and the number of races a difference of a given size needs. Quantiles from MathNet.Numerics.
 /// </summary>

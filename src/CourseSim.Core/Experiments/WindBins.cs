@@ -4,7 +4,7 @@ namespace CourseSim.Experiments;
 public readonly record struct WindBin(double LowKn, double HighKn, int Races, double MeanDiffS);
 
 /// <summary>
-/// For riders (groundwork for the experiments issue): paired differences binned by the race's wind, and the winds where
+/// For riders: paired differences binned by the race's wind, and the winds where
 /// the sign of the binned mean difference changes (where one rig overtakes the other), by linear interpolation between
 /// the centres of neighbouring bins.
 /// </summary>
