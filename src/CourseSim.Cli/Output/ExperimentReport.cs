@@ -75,14 +75,13 @@ public static class ExperimentReport
     {
         if (double.IsNaN(spec.WindMinKn) || pairs.Count == 0) return null;
         var wind = metrics.GroupBy(m => m.Race).ToDictionary(g => g.Key, g => double.Parse(g.First().Line.Split(',')[7], CultureInfo.InvariantCulture));
-        double Time(RaceRow r) => r.Finished && r.ElapsedS is double e ? e : r.DurationS;
         var plt = new Plot();
         for (int i = 0; i < pairs.Count; i++)
         {
             var p = pairs[i];
             var a = rows.Where(r => r.Variant == p.A && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
             var b = rows.Where(r => r.Variant == p.B && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
-            var bins = WindBins.Of(a.Keys.Intersect(b.Keys).Where(wind.ContainsKey).Select(k => (wind[k], Time(a[k]) - Time(b[k]))), 2);
+            var bins = WindBins.Of(a.Keys.Intersect(b.Keys).Where(wind.ContainsKey).Select(k => (wind[k], a[k].TimeOrLimitS - b[k].TimeOrLimitS)), 2);
             if (bins.Count == 0) continue;
             var line = plt.Add.ScatterLine(bins.Select(x => 0.5 * (x.LowKn + x.HighKn)).ToArray(), bins.Select(x => x.MeanDiffS).ToArray());
             line.Color = PolarCharts.Palette[i % PolarCharts.Palette.Length]; line.LineWidth = 2; line.MarkerSize = 7; line.LegendText = $"{p.A} - {p.B}";
@@ -240,12 +239,11 @@ public static class ExperimentReport
     {
         var sb = new StringBuilder("## For riders\n\n");
         var wind = metrics.GroupBy(m => m.Race).ToDictionary(g => g.Key, g => double.Parse(g.First().Line.Split(',')[7], CultureInfo.InvariantCulture));
-        double Time(RaceRow r) => r.Finished && r.ElapsedS is double e ? e : r.DurationS;
         foreach (var p in pairs)
         {
             var a = rows.Where(r => r.Variant == p.A && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
             var b = rows.Where(r => r.Variant == p.B && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
-            var diffs = a.Keys.Intersect(b.Keys).Where(wind.ContainsKey).Select(k => (wind[k], Time(a[k]) - Time(b[k]))).ToList();
+            var diffs = a.Keys.Intersect(b.Keys).Where(wind.ContainsKey).Select(k => (wind[k], a[k].TimeOrLimitS - b[k].TimeOrLimitS)).ToList();
             var bins = WindBins.Of(diffs, 2);
             sb.Append(CultureInfo.InvariantCulture, $"{p.A} - {p.B}, by the race's mean wind (negative: {p.A} faster):\n\n| wind (kn) | races | mean difference (s) |\n|---|---|---|\n");
             foreach (var bin in bins) sb.Append(CultureInfo.InvariantCulture, $"| {F(bin.LowKn, "0")}-{F(bin.HighKn, "0")} | {bin.Races} | {F(bin.MeanDiffS)} |\n");

@@ -10,6 +10,10 @@ public sealed record RaceRow(string Variant, int Race, ulong Seed, string BoardI
 {
     public const string Header = "variant,race,seed,board,name,place,finished,elapsed_s,distance_m,tacks,gybes,falls,ocs,race_duration_s,first_beat_side,splits_s";
 
+    /// <summary>Time that counts for this board: its elapsed time if it finished, else the race's whole duration
+    /// (a DNF is scored as having sailed until the time limit).</summary>
+    public double TimeOrLimitS => Finished && ElapsedS is double e ? e : DurationS;
+
     /// <summary>Split times (s from the signal) at each course step passed.</summary>
     public double[] Splits => SplitsS.Length == 0 ? [] : SplitsS.Split(';').Select(x => double.Parse(x, CultureInfo.InvariantCulture)).ToArray();
 

@@ -13,7 +13,6 @@ public sealed record PairSummary(string A, string B, int Pairs, Interval MeanDif
 /// </summary>
 public static class Comparison
 {
-    static double TimeOf(RaceRow r) => r.Finished && r.ElapsedS is double e ? e : r.DurationS;
 
     public static (IReadOnlyList<VariantSummary> Variants, IReadOnlyList<PairSummary> Pairs) Of(ExperimentSpec spec, IReadOnlyList<RaceRow> rows, ulong seed)
     {
@@ -25,7 +24,7 @@ public static class Comparison
             var list = byVariant[v.Name].Values.OrderBy(r => r.Race).ToList();
             if (list.Count == 0) { variants.Add(new VariantSummary(v.Name, 0, double.NaN, new Interval(double.NaN, double.NaN, double.NaN), double.NaN)); continue; }
             int wins = list.Count(r => r.Place == 1);
-            variants.Add(new VariantSummary(v.Name, list.Count, list.Average(TimeOf), Statistics.Wilson(wins, list.Count),
+            variants.Add(new VariantSummary(v.Name, list.Count, list.Average(r => r.TimeOrLimitS), Statistics.Wilson(wins, list.Count),
                 list.Average(r => (double)(r.Place ?? int.MaxValue / 2))));
         }
         var pairs = new List<PairSummary>();
@@ -35,8 +34,8 @@ public static class Comparison
                 var a = byVariant[spec.Variants[i].Name]; var b = byVariant[spec.Variants[j].Name];
                 var common = a.Keys.Intersect(b.Keys).Order().ToList();
                 if (common.Count < 2) continue;
-                var ta = common.Select(k => TimeOf(a[k])).ToArray();
-                var tb = common.Select(k => TimeOf(b[k])).ToArray();
+                var ta = common.Select(k => a[k].TimeOrLimitS).ToArray();
+                var tb = common.Select(k => b[k].TimeOrLimitS).ToArray();
                 var d = ta.Zip(tb, (x, y) => x - y).ToArray();
                 var t = Statistics.PairedT(d);
                 var boot = Statistics.BootstrapMean(d, seed ^ (ulong)(i * 1000 + j));

@@ -130,9 +130,8 @@ public class ExperimentStatisticsTests
             "scenario = \"race.toml\"\nraces = 1000\nseed = 11\nseeds = \"independent\"\n[variants.one]\nset = \"\"\n[variants.two]\nset = \"\"\n");
         var spec = ExperimentFile.Load(path);
         var rows = BatchRunner.Run(spec, Path.Combine(Path.GetDirectoryName(path)!, "out"), System.Environment.ProcessorCount, false);
-        double Time(RaceRow r) => r.Finished && r.ElapsedS is double e ? e : r.DurationS;
-        var one = rows.Where(r => r.Variant == "one" && r.BoardId == "a").OrderBy(r => r.Race).Select(Time).ToArray();
-        var two = rows.Where(r => r.Variant == "two" && r.BoardId == "a").OrderBy(r => r.Race).Select(Time).ToArray();
+        var one = rows.Where(r => r.Variant == "one" && r.BoardId == "a").OrderBy(r => r.Race).Select(r => r.TimeOrLimitS).ToArray();
+        var two = rows.Where(r => r.Variant == "two" && r.BoardId == "a").OrderBy(r => r.Race).Select(r => r.TimeOrLimitS).ToArray();
         Assert.Equal(1000, one.Length);
         Assert.NotEqual(one, two); // independent winds
         int significant = 0;
