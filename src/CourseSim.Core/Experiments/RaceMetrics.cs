@@ -70,16 +70,17 @@ public sealed record RaceMetrics(double WinnerS, double LineBiasDeg, double Line
         // instant (Rules.RightOfWay.Contact), counted once per pair per approach.
         int contacts = 0;
         var touching = new HashSet<(int, int)>();
+        var now = new HashSet<(int, int)>();
         var order = new int[race.BoardCount];
+        var xs = new float[race.BoardCount];
         for (int k = 0; k < rec.Frames; k++)
         {
             if (rec.TimeOf(k) < 0) continue;
             var frame = rec.Frame(k);
             for (int i = 0; i < order.Length; i++) order[i] = i;
-            var xs = new float[frame.Length];
             for (int i = 0; i < frame.Length; i++) xs[i] = frame[i].X;
             Array.Sort(xs, order);
-            var now = new HashSet<(int, int)>();
+            now.Clear();
             for (int i = 0; i < order.Length; i++)
             {
                 ref readonly var a0 = ref frame[order[i]];
@@ -98,7 +99,7 @@ public sealed record RaceMetrics(double WinnerS, double LineBiasDeg, double Line
                     if (!touching.Contains(key)) contacts++;
                 }
             }
-            touching = now;
+            (touching, now) = (now, touching);
         }
         return new RaceMetrics(winner, bias, advantage, peak, close, sides, race.Setup.Wind.SpeedKn, contacts);
     }
