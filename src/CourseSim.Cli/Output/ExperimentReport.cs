@@ -74,7 +74,7 @@ public static class ExperimentReport
         IReadOnlyList<PairSummary> pairs)
     {
         if (double.IsNaN(spec.WindMinKn) || pairs.Count == 0) return null;
-        var wind = metrics.GroupBy(m => m.Race).ToDictionary(g => g.Key, g => double.Parse(g.First().Line.Split(',')[7], CultureInfo.InvariantCulture));
+        var wind = WindByRace(metrics);
         var plt = new Plot();
         for (int i = 0; i < pairs.Count; i++)
         {
@@ -234,11 +234,15 @@ public static class ExperimentReport
     /// For riders: the paired difference of the focus board's time binned by the race's wind (the experiment spans a
     /// range of winds), and the winds where one variant overtakes the other.
     /// </summary>
+    /// <summary>Mean wind (kn) each race was sailed in, from field 7 of its metrics line (the wind_kn column).</summary>
+    static Dictionary<int, double> WindByRace(IReadOnlyList<(string Variant, int Race, string Line)> metrics) =>
+        metrics.GroupBy(m => m.Race).ToDictionary(g => g.Key, g => double.Parse(g.First().Line.Split(',')[7], CultureInfo.InvariantCulture));
+
     static string Riders(ExperimentSpec spec, IReadOnlyList<RaceRow> rows, IReadOnlyList<(string Variant, int Race, string Line)> metrics,
         IReadOnlyList<PairSummary> pairs)
     {
         var sb = new StringBuilder("## For riders\n\n");
-        var wind = metrics.GroupBy(m => m.Race).ToDictionary(g => g.Key, g => double.Parse(g.First().Line.Split(',')[7], CultureInfo.InvariantCulture));
+        var wind = WindByRace(metrics);
         foreach (var p in pairs)
         {
             var a = rows.Where(r => r.Variant == p.A && r.BoardId == spec.Focus).ToDictionary(r => r.Race);
