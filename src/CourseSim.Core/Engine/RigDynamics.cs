@@ -136,8 +136,12 @@ public sealed class RigDynamics
     {
         double q = 0.5 * _rhoAir * aws * aws;
         double full = q * SailAreaM2 * CentreOfEffortM * FullSailSide(betaRad);
-        return full <= MaxHeelingMomentNm ? 1.0 : MaxHeelingMomentNm / full;
+        return HeelCap(full);
     }
+
+    /// <summary>Sheet fraction the rider can hold when the full sail would heel with moment <paramref name="fullMomentNm"/> (N m).</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    double HeelCap(double fullMomentNm) => fullMomentNm <= MaxHeelingMomentNm ? 1.0 : MaxHeelingMomentNm / fullMomentNm;
 
     double FullSailSide(double betaRad)
     {
@@ -159,7 +163,7 @@ public sealed class RigDynamics
         double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
         double fullSide = _fullSailSide[i] + fx * (_fullSailSide[i + 1] - _fullSailSide[i]);
         double full = qa * CentreOfEffortM * fullSide;
-        double cap = full <= MaxHeelingMomentNm ? 1.0 : MaxHeelingMomentNm / full;
+        double cap = HeelCap(full);
         double want = Math.Min(wantPower, cap);
         double f = sheet + gain * (want - sheet);
         sheet = f;
