@@ -1,6 +1,6 @@
 namespace CourseSim.Engine;
 
-public enum RaceEventKind : byte { Started, Ocs, Cleared, Rounded, WrongSide, Tack, Gybe, Fall, Finished, NotFinished }
+public enum RaceEventKind : byte { Started, Ocs, Cleared, Rounded, WrongSide, Tack, Gybe, Fall, Finished, NotFinished, GiveWay, Contact, PenaltyServed }
 
 /// <summary>Something that happened in the race: when (s from the signal), where, to which board, and a detail.</summary>
 public readonly record struct RaceEvent(double TimeS, int Board, RaceEventKind Kind, double X, double Y, string Detail);
@@ -8,12 +8,15 @@ public readonly record struct RaceEvent(double TimeS, int Board, RaceEventKind K
 /// <summary>One board's result.</summary>
 public sealed record BoardResult(int Board, string Name, string Equipment, int? Place, bool Finished, double? ElapsedS,
     double? GapS, IReadOnlyList<double> SplitsS, double DistanceM, double AverageSpeedMs, int Tacks, int Gybes, int Falls,
-    bool Ocs, int WrongSide);
+    bool Ocs, int WrongSide, int Penalties = 0, int GiveWays = 0);
 
 /// <summary>The outcome of a race.</summary>
 public sealed record RaceResult(ulong Seed, string Scenario, double DurationS, IReadOnlyList<BoardResult> Boards,
     IReadOnlyList<RaceEvent> Events, string EngineVersion)
 {
+    /// <summary>Contacts between boards, judged (time order).</summary>
+    public IReadOnlyList<RaceIncident> Incidents { get; init; } = [];
+
     /// <summary>Results in finishing order (finished boards by elapsed time, then the rest by legs done).</summary>
     public IEnumerable<BoardResult> ByPlace => Boards.OrderBy(b => b.Place ?? int.MaxValue).ThenByDescending(b => b.SplitsS.Count).ThenBy(b => b.Board);
 }

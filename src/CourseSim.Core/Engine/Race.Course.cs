@@ -24,7 +24,7 @@ public sealed partial class Race
         for (int b = 0; b < BoardCount; b++)
         {
             var entry = Setup.Boards[b];
-            var spot = line.A + entry.LinePosition * (line.B - line.A);
+            var spot = line.A + StartPosition(b, entry) * (line.B - line.A);
             // The first leg's heading from the spot, on starboard when beating.
             double h = LegHeading(b, spot, Course.Steps[0].Target, tws, Setup.Wind.DirectionDeg, 1);
             var dir = Vec2.FromBearing(Unit.RadToDeg(h));
@@ -34,12 +34,39 @@ public sealed partial class Race
             var start = _wait[b] - (30 + 30 * rng.Uniform(0)) * dir;
             // Riders aim to reach the line a little after the signal and misjudge it, the less skilled more (from memory:
             // good starters are within about a second of the signal, club riders spread over several seconds).
-            _goMargin[b] = StartMarginMeanS + rng.Normal(1) * (0.3 + 1.5 * (1 - _skill[b]));
+            _goMargin[b] = (entry.StartMarginS ?? StartMarginMeanS) + rng.Normal(1) * (0.3 + 1.5 * (1 - _skill[b]));
             var e = _entities[b];
             World.Get<Pose>(e) = new Pose { X = start.X, Y = start.Y, Heading = h };
             World.Get<Motion>(e) = new Motion { TrackSin = Math.Sin(h), TrackCos = Math.Cos(h) };
             World.Get<Intent>(e).Heading = h;
             _prev[b] = start;
+        }
+    }
+
+    /// <summary>
+    /// Where on the start line (0 = pin end A .. 1 = the other end B) a board lines up, by its start plan: its
+    /// line_position (or a spread of the fleet); an end; or the favoured end, the end further upwind in the wind the
+    /// rider reads at the line as the sequence begins (with their reading error). Riders going for the same end spread
+    /// over its first fifth at random, as a fleet does.
+    /// </summary>
+    double StartPosition(int b, BoardEntry entry)
+    {
+        var line = Course.Start;
+        var rng = _tacticRng.For(0x57A7_0000UL + (ulong)b);
+        double into = 0.03 + 0.17 * rng.Uniform(0);
+        switch (entry.Start)
+        {
+            case "pin-end": return into;
+            case "boat-end": return 1 - into;
+            case "favoured-end":
+            {
+                var mid = line.Mid;
+                var w = Wind.Sample(mid.X, mid.Y, -Settings.CountdownS);
+                double read = w.FromDeg + Tuning.Lerp(Tuning.ReadingErrorExpertDeg, Tuning.ReadingErrorNoviceDeg, _skill[b]) * rng.Normal(1);
+                bool bUpwind = Vec2.Dot(line.B - line.A, Vec2.FromBearing(read)) > 0;
+                return bUpwind ? 1 - into : into;
+            }
+            default: return entry.LinePosition;
         }
     }
 

@@ -1,4 +1,6 @@
+using CourseSim.Agents;
 using CourseSim.Courses;
+using CourseSim.Random;
 using CourseSim.Units;
 
 namespace CourseSim.Engine;
@@ -34,15 +36,17 @@ public sealed partial class Race
         double h = Unit.WrapRadPi(Unit.DegToRad(Setup.Wind.DirectionDeg - twaDeg));
         World.Get<Pose>(e).Heading = h;
         World.Get<Intent>(e).Heading = h;
+        EnsureTacticArrays(); _wantH[board] = h;
         ref var m = ref World.Get<Motion>(e);
         m.TrackSin = Math.Sin(h); m.TrackCos = Math.Cos(h);
     }
 
     /// <summary>
     /// System 2, decide: each rider decides at a human rate (every race.decision_interval_s, staggered across the fleet)
-    /// from what they perceive (the lagged wind at their rig, their own rig's polar, the course). This engine ships one
-    /// tactic, "vmg-layline": sail the best VMG angle on a beat or run and tack or gybe on the layline to the next mark;
-    /// sail straight at the mark on a reach; line up below the start line and go on time-on-distance; return if early.
+    /// from what they perceive (docs/tactics.md). Before the start and when returning from an early start the board
+    /// follows its start plan (line up below its spot on the line, go on time-on-distance, return if early); racing, it
+    /// asks its tactic (<see cref="ITactic"/>). A decision takes effect after the rider's reaction time; the rules'
+    /// lookout (give-way) and a penalty turn being served override it (<see cref="ApplyIntent"/>).
     /// </summary>
     void Decide()
     {
@@ -51,44 +55,92 @@ public sealed partial class Race
         {
             var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var sw = chunk.Span<SensedWind>(); var intent = chunk.Span<Intent>();
             var st = chunk.Span<RaceStatus>(); var man = chunk.Span<ManoeuvreState>(); var mo = chunk.Span<Motion>();
-            for (int i = 0; i < ids.Length; i++) DecideOne(ids[i].Value, in pose[i], in sw[i], ref intent[i], in st[i], in man[i], mo[i].Speed);
+            for (int i = 0; i < ids.Length; i++)
+            {
+                DecideOne(ids[i].Value, in pose[i], in sw[i], ref intent[i], in st[i], in man[i], mo[i].Speed);
+                ApplyIntent(ids[i].Value, ref intent[i], in pose[i], in sw[i], in man[i], in st[i]);
+            }
         }
     }
+
+    ITactic[] _tactics = [];
+    double[] _reactionS = [], _wantH = [], _wantP = [], _wantV = [], _pendH = [], _pendP = [], _pendV = [], _pendAt = [];
+    double[] _noiseDir = [], _noiseSpd = [];
+    readonly Observation _obs = new();
+    Navigator? _nav;
+    List<SeenBoard> _seen = new();
 
     void EnsureTacticArrays()
     {
         if (_lastTurn.Length == BoardCount) return;
-        _lastTurn = new double[BoardCount]; Array.Fill(_lastTurn, double.NegativeInfinity); _holding = new bool[BoardCount]; _going = new bool[BoardCount];
-        _headerTack = new bool[BoardCount]; _headerDeg = new double[BoardCount]; _minTackS = new double[BoardCount];
-        _meanS = new double[BoardCount]; _meanFrom = new double[BoardCount];
-        for (int b = 0; b < BoardCount; b++)
+        int n = BoardCount;
+        _lastTurn = new double[n]; Array.Fill(_lastTurn, double.NegativeInfinity); _holding = new bool[n]; _going = new bool[n];
+        _tactics = new ITactic[n];
+        _reactionS = new double[n]; _wantH = new double[n]; _wantP = new double[n]; _wantV = new double[n];
+        _pendH = new double[n]; _pendP = new double[n]; _pendV = new double[n]; _pendAt = new double[n]; Array.Fill(_pendAt, double.PositiveInfinity);
+        _noiseDir = new double[n]; _noiseSpd = new double[n];
+        _nav = new Navigator(this);
+        var names = Setup.Boards.Select(x => x.Name).ToArray();
+        _obs.FleetNames = names;
+        for (int b = 0; b < n; b++)
         {
             var e = Setup.Boards[b];
-            _headerTack[b] = e.Tactic == "header-tack";
-            _headerDeg[b] = e.Param("header_deg", 5); _minTackS[b] = e.Param("min_tack_s", 20); _meanS[b] = e.Param("mean_s", 90);
-            _meanFrom[b] = double.NaN;
+            if (!TacticRegistry.TryGet(e.Tactic, out var spec))
+                throw new InvalidOperationException($"board '{e.Id}': no tactic '{e.Tactic}' (known: {string.Join(", ", TacticRegistry.Names)})");
+            var prm = spec.Params.ToDictionary(q => q.Name, q => e.Param(q.Name, q.Default));
+            _tactics[b] = spec.Create(new TacticArgs(b, e.Name, prm, e.RivalIndex, Seed));
+            _reactionS[b] = Tuning.Lerp(Tuning.ReactionExpertS, Tuning.ReactionNoviceS, _skill[b]);
+            ref var it = ref World.Get<Intent>(_entities[b]);
+            _wantH[b] = it.Heading; _wantP[b] = it.Power; _wantV[b] = it.TargetSpeed;
         }
+        EnsureRuleArrays();
     }
 
-    bool[] _headerTack = [];
-    double[] _headerDeg = [], _minTackS = [], _meanS = [], _meanFrom = [];
+    /// <summary>
+    /// A decision takes effect after the rider's reaction time. A newer one made while the last is still pending
+    /// replaces it at the same moment (the rider is already acting and adjusts what they do).
+    /// </summary>
+    void Submit(int b, double heading, double power, double target)
+    {
+        _pendH[b] = heading; _pendP[b] = power; _pendV[b] = target;
+        if (double.IsPositiveInfinity(_pendAt[b])) _pendAt[b] = Time + _reactionS[b];
+    }
+
+    /// <summary>
+    /// What the board is steered by this step: the rider's last decision once their reaction time has passed, unless a
+    /// penalty turn is being served or the lookout has the rider keeping clear of another board.
+    /// </summary>
+    void ApplyIntent(int b, ref Intent it, in Pose pose, in SensedWind sw, in ManoeuvreState man, in RaceStatus st)
+    {
+        if (_pendAt[b] <= Time) { _wantH[b] = _pendH[b]; _wantP[b] = _pendP[b]; _wantV[b] = _pendV[b]; _pendAt[b] = double.PositiveInfinity; }
+        double h = _wantH[b], pw = _wantP[b];
+        if (_penaltyOwed[b] > 0 && _penaltyStage[b] == 0) MaybeStartPenalty(b, in pose, in sw, in man, in st);
+        if (_penaltyStage[b] > 0) PenaltyIntent(b, in pose, in sw, in man, ref h, ref pw);
+        _desH[b] = h;
+        if (_avoidOn[b] && Time >= _avoidAt[b]) { h = _avoidH[b]; pw = Math.Min(pw, _avoidP[b]); }
+        it.Heading = h; it.Power = pw; it.TargetSpeed = _wantV[b];
+    }
 
     void DecideOne(int b, in Pose pose, in SensedWind sw, ref Intent it, in RaceStatus st, in ManoeuvreState man, double speed)
     {
         if (Time < it.NextDecisionS) return;
         it.NextDecisionS += _decisionS;
-        if (man.Kind != Manoeuvre.None) return; // busy: no new decision mid-manoeuvre
+        // Busy: no new decision mid-manoeuvre, or once committed to a tack or gybe not yet begun (pinned boards excepted).
+        bool pinned = _holdTwa.Length > b && !double.IsNaN(_holdTwa[b]);
         var p = new Vec2(pose.X, pose.Y);
         double tws = sw.PerceivedSpeed, from = sw.PerceivedFromDeg;
         double twaNow = SignedAngle(from, pose.Heading);
         int tack = twaNow >= 0 ? 1 : -1;
+        if (man.Kind != Manoeuvre.None) return;
+        if (!pinned && !double.IsPositiveInfinity(_pendAt[b]) && Math.Sign(SignedAngle(from, _pendH[b])) != tack) return;
         bool mayTurn = Time - _lastTurn[b] >= MinTimeBetweenTurnsS;
         double heading, power = 1;
-        if (_holdTwa.Length > b && !double.IsNaN(_holdTwa[b]))
+        if (pinned)
         {
-            // Pinned to a true wind angle (polar checks): steer by the true wind at the rig, full power.
-            it.Heading = Unit.WrapRadPi(Unit.DegToRad(sw.TrueFromDeg - _holdTwa[b])); it.Power = 1;
-            it.TargetSpeed = _rigs[b].Speed(sw.TrueSpeed, Unit.DegToRad(_holdTwa[b]));
+            // Pinned to a true wind angle (polar checks): steer by the true wind at the rig, full power, at once.
+            _wantH[b] = Unit.WrapRadPi(Unit.DegToRad(sw.TrueFromDeg - _holdTwa[b])); _wantP[b] = 1;
+            _wantV[b] = _rigs[b].Speed(sw.TrueSpeed, Unit.DegToRad(_holdTwa[b]));
+            _pendAt[b] = double.PositiveInfinity;
             return;
         }
         switch (st.State)
@@ -105,7 +157,7 @@ public sealed partial class Race
                     double closing = Math.Max(0.3, Vec2.Dot(dirH, line.Normal));
                     double vPolar = Math.Max(1.0, _rigs[b].Speed(tws, SignedAngle(from, h)));
                     double v = speed;
-                    double etaFull = toLine / (vPolar * closing) + (v < 0.7 * vPolar ? AccelerationAllowanceS : 0);
+                    double etaFull = toLine / (vPolar * closing) + (v < 0.7 * vPolar ? AccelerationAllowanceS : 0) + _reactionS[b];
                     if (!_holding[b] && (_wait[b] - p).Length < 8) _holding[b] = true;
                     if (remaining <= etaFull || _going[b])
                     {
@@ -128,37 +180,85 @@ public sealed partial class Race
                 break;
             default:
             {
-                var aim = AimPoint(st.NextStep, p);
-                heading = LegHeading(b, p, aim, tws, from, tack, mayTurn);
-                if (_headerTack[b] && HeaderTack(b, p, aim, tws, from, tack)) heading = Unit.WrapRadPi(Unit.DegToRad(from) + tack * _rigs[b].BestTwa(tws, true));
+                var d = AskTactic(b, in pose, in sw, in st, speed, tack);
+                heading = Unit.WrapRadPi(Unit.DegToRad(d.HeadingDeg));
+                power = double.IsFinite(d.Power) ? Math.Clamp(d.Power, 0, 1) : 1;
+                if (!double.IsFinite(heading)) heading = pose.Heading;
                 break;
             }
         }
-        if (_headerTack[b])
-        {
-            // The rider's running mean of the wind direction, against which a header is judged.
-            double k = Math.Min(1, _decisionS / _meanS[b]);
-            _meanFrom[b] = double.IsNaN(_meanFrom[b]) ? from : Unit.WrapDeg360(_meanFrom[b] + k * Unit.WrapDeg180(from - _meanFrom[b]));
-        }
         if (Math.Sign(SignedAngle(from, heading)) != tack) _lastTurn[b] = Time;
-        it.Heading = heading; it.Power = power;
-        it.TargetSpeed = _rigs[b].Speed(tws, SignedAngle(from, heading));
+        Submit(b, heading, power, _rigs[b].Speed(tws, SignedAngle(from, heading)));
     }
 
-
-    /// <summary>
-    /// "header-tack": on a beat, tack when the wind has headed by header_deg or more against the rider's running mean
-    /// (starboard tack is headed when the wind backs, port when it veers), no sooner than min_tack_s after the last
-    /// tack; laylines still apply (the heading already chosen covers them).
-    /// </summary>
-    bool HeaderTack(int b, Vec2 p, Vec2 aim, double tws, double fromDeg, int tack)
+    /// <summary>Fills the observation (perceived wind with the rider's reading error) and asks the board's tactic.</summary>
+    Decision AskTactic(int b, in Pose pose, in SensedWind sw, in RaceStatus st, double speed, int tack)
     {
-        if (double.IsNaN(_meanFrom[b]) || Time - _lastTurn[b] < _minTackS[b]) return false;
-        var d = aim - p;
-        double direct = Unit.WrapRadPi(Unit.DegToRad(fromDeg) - Unit.DegToRad(d.Bearing));
-        if (Math.Abs(direct) >= _rigs[b].BestTwa(tws, true)) return false; // not beating
-        double shift = Unit.WrapDeg180(fromDeg - _meanFrom[b]); // positive: veered
-        return tack > 0 ? shift <= -_headerDeg[b] : shift >= _headerDeg[b];
+        // The rider's reading error: slowly varying (an Ornstein-Uhlenbeck process with a 10 s time constant), larger
+        // for the less skilled (model values: 1 deg and 3 % at skill 1, 3 deg and 8 % at skill 0).
+        var rng = _tacticRng.For(0x0B5E_0000UL + (ulong)b);
+        double keep = Math.Exp(-_decisionS / Tuning.ReadingErrorTauS), fresh = Math.Sqrt(1 - keep * keep);
+        ulong draw = (ulong)StepIndex * 2;
+        _noiseDir[b] = keep * _noiseDir[b] + fresh * rng.Normal(draw);
+        _noiseSpd[b] = keep * _noiseSpd[b] + fresh * rng.Normal(draw + 1);
+        double sdDir = Tuning.Lerp(Tuning.ReadingErrorExpertDeg, Tuning.ReadingErrorNoviceDeg, _skill[b]);
+        double sdSpd = Tuning.Lerp(Tuning.ReadingErrorExpertShare, Tuning.ReadingErrorNoviceShare, _skill[b]);
+        double from = Unit.WrapDeg360(sw.PerceivedFromDeg + sdDir * _noiseDir[b]);
+        double tws = Math.Max(0, sw.PerceivedSpeed * (1 + sdSpd * _noiseSpd[b]));
+        var p = new Vec2(pose.X, pose.Y);
+        var o = _obs;
+        o.TimeS = Time; o.Board = b; o.Name = Setup.Boards[b].Name; o.Position = p;
+        o.HeadingDeg = Unit.WrapDeg360(Unit.RadToDeg(pose.Heading)); o.SpeedMs = speed;
+        o.WindSpeedMs = tws; o.WindFromDeg = from;
+        double twa = Unit.RadToDeg(SignedAngle(from, pose.Heading));
+        o.TrueWindAngleDeg = twa; o.Tack = twa >= 0 ? 1 : -1;
+        o.Course = Course; o.NextStep = st.NextStep; o.Polar = _rigs[b]; o.LastTurnS = _lastTurn[b];
+        var aim = AimPoint(st.NextStep, p);
+        o.AimPoint = aim;
+        double direct = Math.Abs(Unit.RadToDeg(SignedAngle(from, Unit.DegToRad((aim - p).Bearing))));
+        double up = Unit.RadToDeg(_rigs[b].BestTwa(tws, true)), down = Unit.RadToDeg(_rigs[b].BestTwa(tws, false));
+        o.Leg = direct < up ? LegKind.Beat : direct > down && (aim - p).Length > CloseRunM ? LegKind.Run : LegKind.Reach;
+        var tactic = _tactics[b];
+        o.Nearby = tactic.WantsNearby ? SeenFrom(b, p, _tacticRng.For(0x5EE0_0000UL + (ulong)b), (ulong)StepIndex * 4096) : [];
+        _nav!.Set(b, p, tws, from, o.Tack);
+        return tactic.Decide(o, _nav);
+    }
+
+    /// <summary>Boards within sight of board b, nearest first, with the wind each seems to have (the rider's reading error added).</summary>
+    IReadOnlyList<SeenBoard> SeenFrom(int b, Vec2 p, CounterRng rng, ulong draw)
+    {
+        _seen.Clear();
+        double sd = Tuning.Lerp(Tuning.ReadingErrorExpertShare, Tuning.ReadingErrorNoviceShare, _skill[b]) * 2;
+        for (int j = 0; j < BoardCount; j++)
+        {
+            if (j == b) continue;
+            var e = _entities[j];
+            ref var st = ref World.Get<RaceStatus>(e);
+            if (st.State is RaceState.Finished or RaceState.NotFinished) continue;
+            ref var q = ref World.Get<Pose>(e);
+            var pj = new Vec2(q.X, q.Y);
+            double d = (pj - p).Length;
+            if (d > SightRangeM) continue;
+            ref var w = ref World.Get<SensedWind>(e);
+            double seen = Math.Max(0, w.TrueSpeed * (1 + sd * rng.Normal(draw + (ulong)j)));
+            _seen.Add(new SeenBoard(j, Setup.Boards[j].Name, pj, Unit.WrapDeg360(Unit.RadToDeg(q.Heading)), World.Get<Motion>(e).Speed, seen, d, st.NextStep));
+        }
+        _seen.Sort((x, y) => x.DistanceM.CompareTo(y.DistanceM));
+        return _seen;
+    }
+
+    /// <summary>How far a rider can see other boards and read the wind on the water, m (model value).</summary>
+    public const double SightRangeM = 1000;
+
+    /// <summary>The engine's navigation for tactics, set up for one board's decision.</summary>
+    sealed class Navigator(Race race) : INavigator
+    {
+        int _b, _tack; Vec2 _p; double _tws, _from;
+        public void Set(int b, Vec2 p, double tws, double from, int tack) { _b = b; _p = p; _tws = tws; _from = from; _tack = tack; }
+        public double ToTarget(Vec2 target, bool mayTurn = true) =>
+            Unit.WrapDeg360(Unit.RadToDeg(race.LegHeading(_b, _p, target, _tws, _from, _tack, mayTurn)));
+        public double AtTrueWindAngle(double twaDeg) => Unit.WrapDeg360(_from - twaDeg);
+        public double BestAngle(bool upwind) => Unit.RadToDeg(race._rigs[_b].BestTwa(_tws, upwind));
     }
 
     /// <summary>

@@ -11,7 +11,7 @@ namespace CourseSim.Engine;
 /// <summary>Time spent in each system (Stopwatch ticks), for benchmarks.</summary>
 public sealed class SystemTimings
 {
-    public static readonly string[] Names = ["sense wind", "decide", "trim and forces", "integrate", "manoeuvres", "course progress"];
+    public static readonly string[] Names = ["sense wind", "decide", "trim and forces", "integrate", "manoeuvres", "course progress", "rules"];
     public long[] Ticks { get; } = new long[Names.Length];
     public long Steps { get; private set; }
     internal void Add(params ReadOnlySpan<long> t) { for (int i = 0; i < t.Length; i++) Ticks[i] += t[i]; Steps++; }
@@ -145,8 +145,11 @@ public sealed partial class Race
     public void Step()
     {
         if (IsOver) return;
+        EnsureTacticArrays();
         if (Timings is { } tm)
         {
+            long r0 = System.Diagnostics.Stopwatch.GetTimestamp();
+            RulesLookout();
             long t0 = System.Diagnostics.Stopwatch.GetTimestamp();
             SenseWind(); long t1 = System.Diagnostics.Stopwatch.GetTimestamp();
             Decide(); long t2 = System.Diagnostics.Stopwatch.GetTimestamp();
@@ -154,9 +157,15 @@ public sealed partial class Race
             Integrate(); long t4 = System.Diagnostics.Stopwatch.GetTimestamp();
             Manoeuvres(); long t5 = System.Diagnostics.Stopwatch.GetTimestamp();
             CourseProgress(); long t6 = System.Diagnostics.Stopwatch.GetTimestamp();
-            tm.Add(t1 - t0, t2 - t1, t3 - t2, t4 - t3, t5 - t4, t6 - t5);
+            CheckContacts(); long t7 = System.Diagnostics.Stopwatch.GetTimestamp();
+            tm.Add(t1 - t0, t2 - t1, t3 - t2, t4 - t3, t5 - t4, t6 - t5, t0 - r0 + t7 - t6);
         }
-        else StepFused();
+        else
+        {
+            RulesLookout();
+            StepFused();
+            CheckContacts();
+        }
         _commands.Playback(World);
         Time += Dt;
         StepIndex++;
@@ -175,7 +184,6 @@ public sealed partial class Race
         int phase = BuildShadows();
         double k = Math.Min(1, _senseEvery * Dt / Tuning.PerceptionLagS);
         bool first = StepIndex == 0;
-        EnsureTacticArrays();
         foreach (var chunk in _active)
         {
             var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>(); var sw = chunk.Span<SensedWind>();
@@ -200,6 +208,7 @@ public sealed partial class Race
                 // The guards of SenseOne and DecideOne, here, so the boards not due this step make no call.
                 if (first || _senseSlot[b] == phase) SenseOne(b, phase, first, k, in p, ref w);
                 if (Time >= it.NextDecisionS) DecideOne(b, in p, in w, ref it, in s, in mn, m.Speed);
+                ApplyIntent(b, ref it, in p, in w, in mn, in s);
                 TrimOne(b, in p, ref m, in w, ref t, ref r, in it, in mn);
                 IntegrateOne(b, ref p, ref m, in t, in it, in mn);
                 ManoeuvreOne(b, ref p, ref m, in w, ref t, in it, ref mn, ref s);
@@ -297,11 +306,11 @@ public sealed partial class Race
             double sailing = fin ? st.FinishedS : Math.Max(Time, 1e-9);
             rows.Add(new BoardResult(b, Setup.Boards[b].Name, Setup.Boards[b].Equipment.Name, place.TryGetValue(b, out int p) ? p : null, fin, el,
                 fin && best is double bt ? st.FinishedS - bt : null, _splits[b].ToArray(), m.Distance,
-                m.Distance / Math.Max(sailing, 1e-9), st.Tacks, st.Gybes, st.Falls, st.Ocs, st.WrongSide));
+                m.Distance / Math.Max(sailing, 1e-9), st.Tacks, st.Gybes, st.Falls, st.Ocs, st.WrongSide, PenaltiesOf(b), _giveWays.Length > b ? _giveWays[b] : 0));
         }
         // Events in time order (ties: board, then kind), whichever way the step walked the fleet.
         var events = _events.Select((e, n) => (e, n)).OrderBy(x => x.e.TimeS).ThenBy(x => x.e.Board).ThenBy(x => x.e.Kind).ThenBy(x => x.n)
             .Select(x => x.e).ToArray();
-        return new RaceResult(Seed, Setup.Name, Time, rows, events, EngineVersion);
+        return new RaceResult(Seed, Setup.Name, Time, rows, events, EngineVersion) { Incidents = _incidents.ToArray() };
     }
 }

@@ -1,4 +1,5 @@
 using System.Globalization;
+using CourseSim.Agents;
 using CourseSim.Courses;
 using CourseSim.Equilibrium;
 using CourseSim.Settings;
@@ -10,6 +11,13 @@ namespace CourseSim.Engine;
 public sealed record BoardEntry(string Id, string Name, Equipment Equipment, string Tactic, double LinePosition, int Line,
     IReadOnlyDictionary<string, double>? Params = null)
 {
+    /// <summary>Index in the fleet of the board this one's tactic watches (the rival to cover), or -1.</summary>
+    public int RivalIndex { get; init; } = -1;
+    /// <summary>The start plan: where on the line (see <see cref="ScenarioFile.StartPlans"/>).</summary>
+    public string Start { get; init; } = "line-position";
+    /// <summary>Planned arrival at the line after the signal, s (null: the engine's default margin).</summary>
+    public double? StartMarginS { get; init; }
+
     /// <summary>A tactic parameter, or its default.</summary>
     public double Param(string name, double fallback) => Params is not null && Params.TryGetValue(name, out var v) ? v : fallback;
 }
@@ -38,30 +46,33 @@ public sealed record RaceSettings
     public ulong Seed { get; init; } = 1;
 }
 
+/// <summary>The right-of-way rules as the engine applies them (docs/tactics.md).</summary>
+public sealed record RuleSettings
+{
+    /// <summary>Whether riders look out and keep clear as the rules ask (off: contacts are only judged).</summary>
+    public bool GiveWay { get; init; } = true;
+    /// <summary>Whether a board found to have broken a rule in a contact takes a one-turn penalty.</summary>
+    public bool Penalties { get; init; } = true;
+    /// <summary>Rate of each rider's lookout for conflicts, per second.</summary>
+    public double LookoutHz { get; init; } = 5;
+    /// <summary>Hulls closer than this are in contact, m.</summary>
+    public double ContactM { get; init; } = 1.0;
+    /// <summary>Boards within this distance of the mark they are about to round are "rounding or passing" (Appendix B), m.</summary>
+    public double MarkRoomM { get; init; } = 15;
+}
+
 /// <summary>Everything a race needs, resolved and validated.</summary>
 public sealed record RaceSetup(string Name, string Description, string VenueName, double LatDeg, double LonDeg,
-    WindSettings Wind, RaceSettings Race, Course Course, IReadOnlyList<BoardEntry> Boards, string SourcePath);
+    WindSettings Wind, RaceSettings Race, Course Course, IReadOnlyList<BoardEntry> Boards, string SourcePath)
+{
+    public RuleSettings Rules { get; init; } = new();
+}
 
 /// <summary>Scenario files (docs/scenario.md): name, venue, wind, race, course and fleet.</summary>
 public static class ScenarioFile
 {
-    /// <summary>Tactics the engine knows; the tactics issue adds more.</summary>
-    public static readonly string[] Tactics = ["vmg-layline", "header-tack"];
-
-    /// <summary>Each tactic's parameters: name, accepted range, default, meaning.</summary>
-    public static readonly IReadOnlyDictionary<string, (double Min, double Max, double Default, string Help)[]> TacticParams =
-        new Dictionary<string, (double, double, double, string)[]>
-        {
-            ["vmg-layline"] = [],
-            ["header-tack"] =
-            [
-                (1, 45, 5, "header_deg: tack when the wind has headed this much against the rider's running mean, deg"),
-                (5, 600, 20, "min_tack_s: least time between tacks, s"),
-                (10, 1200, 90, "mean_s: time constant of the rider's running mean of the wind direction, s"),
-            ],
-        };
-
-    static string ParamName((double, double, double, string Help) p) => p.Help[..p.Help.IndexOf(':')];
+    /// <summary>Start plans: the spot on the line a rider lines up for.</summary>
+    public static readonly string[] StartPlans = ["line-position", "favoured-end", "pin-end", "boat-end"];
 
     public static readonly SettingsSchema Schema = new("scenario",
     [
@@ -85,9 +96,17 @@ public static class ScenarioFile
         KeySpec.Text("boards.*.equipment", "", "equipment file of this board, relative to the scenario file"),
         KeySpec.Text("boards.*.name", "", "name shown in results (default: the equipment's name)"),
         KeySpec.Text("boards.*.set", "", "equipment overrides for this board, 'table.key=value' separated by ';'"),
-        KeySpec.Text("boards.*.tactic", "vmg-layline", "the board's tactic", Tactics),
+        KeySpec.Text("boards.*.tactic", "vmg-layline", "the board's tactic (docs/tactics.md lists them and their parameters)"),
+        KeySpec.Derived("boards.*.params.*", -1e6, 1e6, "a parameter of the board's tactic (docs/tactics.md lists each tactic's)"),
+        KeySpec.Text("boards.*.rival", "", "for tactics that watch a rival (cover): the rival's board id ([boards.ID])"),
+        KeySpec.Text("boards.*.start", "line-position", "start plan: line-position (line_position, or spread), favoured-end (the upwind end as the rider reads the wind), pin-end, boat-end", StartPlans),
         KeySpec.Derived("boards.*.line_position", 0, 1, "where on the start line the rider aims: 0 pin (left) end .. 1 right end; default: spread"),
-        KeySpec.Derived("boards.*.params.*", -1e6, 1e6, "a parameter of the board's tactic (docs/engine.md lists each tactic's)"),
+        KeySpec.Derived("boards.*.start_margin_s", -5, 30, "when after the signal the rider plans to reach the line on time-on-distance, s (default: 1.5 s with the rider's misjudgement)"),
+        KeySpec.Flag("rules.give_way", true, "riders look out and keep clear as the right-of-way rules ask (false: contacts are only judged)"),
+        KeySpec.Flag("rules.penalties", true, "a board at fault in a contact takes a one-turn penalty"),
+        KeySpec.Number("rules.lookout_hz", 1, 20, 5, "rate of each rider's lookout for conflicts, per second"),
+        KeySpec.Number("rules.contact_m", 0.2, 3, 1.0, "hulls closer than this are in contact, m"),
+        KeySpec.Number("rules.mark_room_m", 5, 60, 15, "boards this close to the mark they are about to round are rounding or passing (mark-room), m"),
     ]);
 
     public static SettingsFile Load(string path, IEnumerable<string>? overrides = null) => SettingsFile.Load(path, Schema, overrides);
@@ -137,23 +156,52 @@ public static class ScenarioFile
             string name = f.Text($"boards.{id}.name") is { Length: > 0 } n ? n : eq.Name;
             double pos = f.Has($"boards.{id}.line_position") ? f.Number($"boards.{id}.line_position") : (i + 0.5) / ids.Count;
             string tactic = f.Text($"boards.{id}.tactic");
-            var known = TacticParams[tactic];
+            if (!TacticRegistry.TryGet(tactic, out var tspec))
+                throw f.Has($"boards.{id}.tactic")
+                    ? f.ErrorAt($"boards.{id}.tactic", $"no tactic '{tactic}'; known tactics: {string.Join(", ", TacticRegistry.Names)}")
+                    : new SettingsException(f.Path, 0, $"boards.{id}.tactic", $"the default tactic '{tactic}' is not registered");
+            var known = tspec.Params;
             var prm = new Dictionary<string, double>();
             string prefix = $"boards.{id}.params.";
             foreach (var k in f.KeysGiven.Where(k => k.StartsWith(prefix, StringComparison.Ordinal)).Order(StringComparer.Ordinal))
             {
                 string pn = k[prefix.Length..];
-                var spec = known.FirstOrDefault(q => ParamName(q) == pn);
-                if (spec.Help is null)
-                    throw f.ErrorAt(k, $"tactic '{tactic}' has no parameter '{pn}'; its parameters: {(known.Length == 0 ? "none" : string.Join(", ", known.Select(ParamName)))}");
+                var spec = known.FirstOrDefault(q => q.Name == pn);
+                if (spec is null)
+                    throw f.ErrorAt(k, $"tactic '{tactic}' has no parameter '{pn}'; its parameters: {(known.Count == 0 ? "none" : string.Join(", ", known.Select(q => q.Name)))}");
                 double val = f.Number(k);
                 if (val < spec.Min || val > spec.Max) throw f.ErrorAt(k, $"{val} is out of range for {pn}: accepted {spec.Min} to {spec.Max} ({spec.Help})");
                 prm[pn] = val;
             }
-            foreach (var q in known) prm.TryAdd(ParamName(q), q.Default);
-            boards.Add(new BoardEntry(id, name, eq, tactic, pos, f.Raw(key)?.Line ?? 0, prm));
+            foreach (var q in known) prm.TryAdd(q.Name, q.Default);
+            boards.Add(new BoardEntry(id, name, eq, tactic, pos, f.Raw(key)?.Line ?? 0, prm)
+            {
+                Start = f.Text($"boards.{id}.start"),
+                StartMarginS = f.Has($"boards.{id}.start_margin_s") ? f.Number($"boards.{id}.start_margin_s") : null,
+            });
         }
+        // Rivals name another board of the fleet; a tactic that needs one must be given one.
+        for (int i = 0; i < boards.Count; i++)
+        {
+            string id = ids[i], rk = $"boards.{id}.rival";
+            string rival = f.Text(rk);
+            TacticRegistry.TryGet(boards[i].Tactic, out var tspec);
+            if (rival.Length == 0)
+            {
+                if (tspec!.NeedsRival) throw f.ErrorAt($"boards.{id}.tactic", $"tactic '{tspec.Name}' needs a rival: add rival = \"ID\" naming another [boards.ID]");
+                continue;
+            }
+            int r = ids.ToList().IndexOf(rival);
+            if (r < 0) throw f.ErrorAt(rk, $"no board '{rival}' in the fleet; boards: {string.Join(", ", ids)}");
+            if (r == i) throw f.ErrorAt(rk, "a board cannot be its own rival");
+            boards[i] = boards[i] with { RivalIndex = r };
+        }
+        var rules = new RuleSettings
+        {
+            GiveWay = f.Flag("rules.give_way"), Penalties = f.Flag("rules.penalties"), LookoutHz = f.Number("rules.lookout_hz"),
+            ContactM = f.Number("rules.contact_m"), MarkRoomM = f.Number("rules.mark_room_m"),
+        };
         return new RaceSetup(f.Text("name"), f.Text("description"), f.Text("venue.name"), f.Number("venue.lat_deg"), f.Number("venue.lon_deg"),
-            wind, race, course, boards, f.Path);
+            wind, race, course, boards, f.Path) { Rules = rules };
     }
 }

@@ -36,5 +36,14 @@ public static class Tuning
     /// <summary>Share of W' a rider who ran down to the floor recovers before pumping again (model value).</summary>
     public const double RestUntil = 0.6;
 
+    /// <summary>Time from a decision to acting on it, s, at skill 1 and 0 (from memory: choice reaction times of 0.4-0.8 s).</summary>
+    public const double ReactionExpertS = 0.4, ReactionNoviceS = 0.8;
+    /// <summary>Time constant of the rider's error in reading the wind, s (model value: a misreading persists for a while).</summary>
+    public const double ReadingErrorTauS = 10;
+    /// <summary>Standard deviation of the rider's reading of the wind direction, deg, at skill 1 and 0 (model values).</summary>
+    public const double ReadingErrorExpertDeg = 1, ReadingErrorNoviceDeg = 3;
+    /// <summary>Standard deviation of the rider's reading of the wind speed, share, at skill 1 and 0 (model values).</summary>
+    public const double ReadingErrorExpertShare = 0.03, ReadingErrorNoviceShare = 0.08;
+
     public static double Lerp(double expert, double novice, double skill) => novice + (expert - novice) * Math.Clamp(skill, 0, 1);
 }

@@ -36,11 +36,15 @@ public class HeaderTackTests
     {
         var e = Assert.Throws<SettingsException>(() => Beat("header-tack", 10, "[boards.a.params]\nheader_degs = 4\n"));
         Assert.Contains("header_degs", e.Message);
-        Assert.Contains("header_deg, min_tack_s, mean_s", e.Message);
+        Assert.Contains("header_deg, lift_deg, min_tack_s, mean_s", e.Message);
         Assert.True(e.Line > 0);
         var range = Assert.Throws<SettingsException>(() => Beat("header-tack", 10, "[boards.a.params]\nheader_deg = 90\n"));
         Assert.Contains("accepted 1 to 45", range.Message);
-        var none = Assert.Throws<SettingsException>(() => Beat("vmg-layline", 10, "[boards.a.params]\nheader_deg = 5\n"));
-        Assert.Contains("its parameters: none", none.Message);
+        var other = Assert.Throws<SettingsException>(() => Beat("vmg-layline", 10, "[boards.a.params]\nheader_deg = 5\n"));
+        Assert.Contains("its parameters: min_turn_s", other.Message);
+        var unknown = Assert.Throws<SettingsException>(() => Beat("tack-a-lot", 10));
+        Assert.Contains("no tactic 'tack-a-lot'", unknown.Message);
+        foreach (var name in new[] { "conservative", "cover", "header-tack", "pressure", "vmg-layline" }) Assert.Contains(name, unknown.Message);
+        Assert.True(unknown.Line > 0);
     }
 }
