@@ -35,7 +35,7 @@ public sealed partial class Race
     int[] _penaltyOwed = [], _penaltyStage = [], _penaltySign = [], _penaltiesTaken = [], _giveWays = [];
     double[] _penaltyStageAt = [];
     // Lookout snapshot of the fleet.
-    double[] _sx = [], _sy = [], _sh = [], _sv = [], _sFrom = [];
+    double[] _sx = [], _sy = [], _sh = [], _st = [], _sv = [], _sFrom = [];
     bool[] _sLive = [], _sTacking = [], _sCapsized = [], _sBusy = [];
     int[] _sNext = [];
     long[] _cellKey = []; int[] _cellOrder = [];
@@ -54,7 +54,7 @@ public sealed partial class Race
         _nearestM = new double[n]; Array.Fill(_nearestM, double.PositiveInfinity);
         _penaltyOwed = new int[n]; _penaltyStage = new int[n]; _penaltySign = new int[n]; _penaltiesTaken = new int[n]; _giveWays = new int[n];
         _penaltyStageAt = new double[n];
-        _sx = new double[n]; _sy = new double[n]; _sh = new double[n]; _sv = new double[n]; _sFrom = new double[n];
+        _sx = new double[n]; _sy = new double[n]; _sh = new double[n]; _st = new double[n]; _sv = new double[n]; _sFrom = new double[n];
         _sLive = new bool[n]; _sTacking = new bool[n]; _sCapsized = new bool[n]; _sBusy = new bool[n]; _sNext = new int[n];
         _cellKey = new long[n]; _cellOrder = new int[n];
         _lookoutEvery = Math.Max(1, (int)Math.Round(Settings.StepHz / Math.Min(Setup.Rules.LookoutHz, Settings.StepHz)));
@@ -90,7 +90,7 @@ public sealed partial class Race
             {
                 int b = ids[i].Value;
                 _sLive[b] = st[i].State is not (RaceState.Finished or RaceState.NotFinished);
-                _sx[b] = pose[i].X; _sy[b] = pose[i].Y; _sh[b] = pose[i].Heading; _sv[b] = mo[i].Speed; _sFrom[b] = sw[i].TrueFromDeg;
+                _sx[b] = pose[i].X; _sy[b] = pose[i].Y; _sh[b] = pose[i].Heading; _st[b] = Math.Atan2(mo[i].TrackSin, mo[i].TrackCos); _sv[b] = mo[i].Speed; _sFrom[b] = sw[i].TrueFromDeg;
                 ref readonly var m = ref man[i];
                 // Appendix B, rule 13 as changed: from passing head to wind until the sail has filled (the crossing,
                 // and the first second of sheeting in on the new tack).
@@ -182,16 +182,24 @@ public sealed partial class Race
             double da = (ra.Centre - mark).Length, db = (rb.Centre - mark).Length;
             bool beatOpposite = v.Rule == RuleNumber.Rule10 && (Math.Abs(SignedAngle(from, headingA)) < Math.PI / 2 || Math.Abs(SignedAngle(from, _sh[b])) < Math.PI / 2);
             if (da < Setup.Rules.MarkRoomM && db < Setup.Rules.MarkRoomM && RightOfWay.Overlapped(ra, rb) && !beatOpposite)
-                return (da < db ? b : a, "18");
+            {
+                // Inside: the board on the mark's side of the other (abeam), not merely the nearer one.
+                var fb = rb.Forward; var right = new Vec2(fb.Y, -fb.X);
+                bool aInside = Math.Sign(Vec2.Dot(ra.Centre - rb.Centre, right)) == Math.Sign(Vec2.Dot(mark - rb.Centre, right));
+                return (aInside ? b : a, "18");
+            }
         }
         return (keep, rule);
     }
 
-    /// <summary>Closest point of approach within the lookahead: time (s) and centre distance (m), a at heading ha and speed va.</summary>
+    /// <summary>
+    /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track ha
+    /// (rad) at va (m/s), b holding its present track and speed (tracks, not headings: leeway is large at low speed).
+    /// </summary>
     (double T, double D) Cpa(int a, double ha, double va, int b)
     {
         double rx = _sx[b] - _sx[a], ry = _sy[b] - _sy[a];
-        double vx = _sv[b] * Math.Sin(_sh[b]) - va * Math.Sin(ha), vy = _sv[b] * Math.Cos(_sh[b]) - va * Math.Cos(ha);
+        double vx = _sv[b] * Math.Sin(_st[b]) - va * Math.Sin(ha), vy = _sv[b] * Math.Cos(_st[b]) - va * Math.Cos(ha);
         double vv = vx * vx + vy * vy;
         double t = vv < 1e-9 ? 0 : Math.Clamp(-(rx * vx + ry * vy) / vv, 0, LookaheadS);
         double dx = rx + vx * t, dy = ry + vy * t;
@@ -204,8 +212,12 @@ public sealed partial class Race
     void LookoutOne(int k)
     {
         if (_sBusy[k]) return; // mid-manoeuvre or in the water: cannot act now
-        double want = _desH[k];
-        double va = Math.Max(_sv[k], 1.0);
+        // What the rider is about to do: a decision still in their reaction time is what they look out for.
+        bool pending = !double.IsPositiveInfinity(_pendAt[k]) && _penaltyStage[k] == 0;
+        double want = pending ? _pendH[k] : _desH[k];
+        // Wanting the other tack: the rider foresees being nearly stopped through the tack (model value: a third of the speed).
+        bool turning = Math.Sign(SignedAngle(_sFrom[k], want)) != Math.Sign(SignedAngle(_sFrom[k], _sh[k]));
+        double va = turning ? 0.3 * _sv[k] : Math.Max(_sv[k], 1.0);
         _threats.Clear();
         int firstOther = -1; string firstRule = "";
         bool any = false;
@@ -228,8 +240,8 @@ public sealed partial class Race
         // The least change that clears every threat: headings on the present tack either side of the one wanted (or
         // the present heading, if the one wanted is on the other tack: the tack is put off), full power or slowing.
         double from = _sFrom[k];
-        double cur = _sh[k];
-        int side = Math.Sign(SignedAngle(from, cur)); if (side == 0) side = 1;
+        double cur = _st[k];
+        int side = Math.Sign(SignedAngle(from, _sh[k])); if (side == 0) side = 1;
         double baseH = Math.Sign(SignedAngle(from, want)) == side ? want : cur;
         double bestCost = double.PositiveInfinity, bestH = baseH, bestP = 1, bestWorst = -1, fallbackH = baseH, fallbackP = 0;
         ReadOnlySpan<double> offsets = [0, 10, -10, 20, -20, 30, -30, 45, -45, 60, -60, 80, -80];
@@ -243,6 +255,8 @@ public sealed partial class Race
                 double worst = double.PositiveInfinity;
                 foreach (int j in _threats) { var (t, d) = Cpa(k, h, v, j); worst = Math.Min(worst, t >= LookaheadS ? double.PositiveInfinity : d); }
                 double cost = Math.Abs(off) + (slow == 1 ? 25 : 0);
+                // Riders stick to the way of keeping clear they chose (no dithering between ducking and slowing).
+                if (_avoidOn[k] && (slow == 1) == (_avoidP[k] == 0) && Math.Abs(Unit.WrapRadPi(h - _avoidH[k])) < Unit.DegToRad(6)) cost -= 15;
                 if (worst >= margin && cost < bestCost) { bestCost = cost; bestH = h; bestP = slow == 1 ? 0 : 1; }
                 if (worst > bestWorst) { bestWorst = worst; fallbackH = h; fallbackP = slow == 1 ? 0 : 1; }
             }
@@ -250,6 +264,7 @@ public sealed partial class Race
         if (!_avoidOn[k])
         {
             _avoidOn[k] = true; _avoidAt[k] = Time + _reactionS[k]; _giveWays[k]++;
+            if (pending) _avoidAt[k] = Math.Min(_avoidAt[k], _pendAt[k]); // seen while deciding: acted on with it
             _events.Add(new RaceEvent(Time, k, RaceEventKind.GiveWay, _sx[k], _sy[k],
                 $"keeps clear of {Setup.Boards[firstOther].Name} (rule {firstRule})"));
         }

@@ -36,9 +36,31 @@ public sealed partial class Race
         double h = Unit.WrapRadPi(Unit.DegToRad(Setup.Wind.DirectionDeg - twaDeg));
         World.Get<Pose>(e).Heading = h;
         World.Get<Intent>(e).Heading = h;
-        EnsureTacticArrays(); _wantH[board] = h;
+        EnsureTacticArrays(); _wantH[board] = h; _desH[board] = h;
         ref var m = ref World.Get<Motion>(e);
         m.TrackSin = Math.Sin(h); m.TrackCos = Math.Cos(h);
+    }
+
+    /// <summary>
+    /// Puts a board somewhere under way, racing towards its next course step (<paramref name="nextStep"/>): for scripted
+    /// encounters (the rules' tests, docs/tactics.md) and for studies that start mid-race. Heading in compass degrees,
+    /// speed along the heading in m/s. Call between steps.
+    /// </summary>
+    public void Place(int board, double x, double y, double headingDeg, double speedMs, int nextStep = 0)
+    {
+        EnsureTacticArrays();
+        var e = _entities[board];
+        double h = Unit.WrapRadPi(Unit.DegToRad(headingDeg));
+        World.Get<Pose>(e) = new Pose { X = x, Y = y, Heading = h };
+        ref var m = ref World.Get<Motion>(e);
+        m.Speed = speedMs; m.Leeway = 0; m.YawRate = 0; m.TrackSin = Math.Sin(h); m.TrackCos = Math.Cos(h);
+        ref var it = ref World.Get<Intent>(e);
+        it.Heading = h; it.Power = 1;
+        _wantH[board] = h; _wantP[board] = 1; _desH[board] = h; _pendAt[board] = double.PositiveInfinity;
+        World.Get<ManoeuvreState>(e) = new ManoeuvreState();
+        ref var st = ref World.Get<RaceStatus>(e);
+        st.State = RaceState.Racing; st.Ocs = false; st.NextStep = nextStep; st.StartedS = Time;
+        _prev[board] = new Vec2(x, y);
     }
 
     /// <summary>
@@ -94,16 +116,20 @@ public sealed partial class Race
             _wantH[b] = it.Heading; _wantP[b] = it.Power; _wantV[b] = it.TargetSpeed;
         }
         EnsureRuleArrays();
+        Array.Copy(_wantH, _desH, n);
     }
 
     /// <summary>
     /// A decision takes effect after the rider's reaction time. A newer one made while the last is still pending
     /// replaces it at the same moment (the rider is already acting and adjusts what they do).
     /// </summary>
-    void Submit(int b, double heading, double power, double target)
+    void Submit(int b, double heading, double power, double target, double fromDeg)
     {
+        // A pending decision already due is acted on first; a new tack or gybe always takes a full reaction time.
+        if (_pendAt[b] <= Time) { _wantH[b] = _pendH[b]; _wantP[b] = _pendP[b]; _wantV[b] = _pendV[b]; _pendAt[b] = double.PositiveInfinity; }
+        bool newSide = Math.Sign(SignedAngle(fromDeg, heading)) != Math.Sign(SignedAngle(fromDeg, double.IsPositiveInfinity(_pendAt[b]) ? _wantH[b] : _pendH[b]));
         _pendH[b] = heading; _pendP[b] = power; _pendV[b] = target;
-        if (double.IsPositiveInfinity(_pendAt[b])) _pendAt[b] = Time + _reactionS[b];
+        if (double.IsPositiveInfinity(_pendAt[b]) || newSide) _pendAt[b] = Time + _reactionS[b];
     }
 
     /// <summary>
@@ -188,7 +214,7 @@ public sealed partial class Race
             }
         }
         if (Math.Sign(SignedAngle(from, heading)) != tack) _lastTurn[b] = Time;
-        Submit(b, heading, power, _rigs[b].Speed(tws, SignedAngle(from, heading)));
+        Submit(b, heading, power, _rigs[b].Speed(tws, SignedAngle(from, heading)), from);
     }
 
     /// <summary>Fills the observation (perceived wind with the rider's reading error) and asks the board's tactic.</summary>
