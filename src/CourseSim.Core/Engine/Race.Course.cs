@@ -12,6 +12,8 @@ public sealed partial class Race
     public const double AccelerationAllowanceS = 2;
     /// <summary>How long after the signal riders aim to reach the line, on average, s (model value).</summary>
     public const double StartMarginMeanS = 1.5;
+    /// <summary>Least distance between boards where the simulation begins, m (model value: boards spread out before the sequence).</summary>
+    public const double StartApartM = 10;
 
     Vec2[] _prev = [];
 
@@ -32,6 +34,8 @@ public sealed partial class Race
             _wait[b] = spot - WaitBackM * dir;
             var rng = _tacticRng.For((ulong)b);
             var start = _wait[b] - (30 + 30 * rng.Uniform(0)) * dir;
+            // Boards begin the sequence apart: a start spot taken by an earlier board is moved further back.
+            for (int tries = 0; tries < 20 && Enumerable.Range(0, b).Any(o => (_prev[o] - start).Length < StartApartM); tries++) start = start - 10 * dir;
             // Riders aim to reach the line a little after the signal and misjudge it, the less skilled more (from memory:
             // good starters are within about a second of the signal, club riders spread over several seconds).
             _goMargin[b] = (entry.StartMarginS ?? StartMarginMeanS) + rng.Normal(1) * (0.3 + 1.5 * (1 - _skill[b]));

@@ -47,6 +47,7 @@ public sealed partial class Race
                         // twa - turn passes 0 (a tack) or pi (a gybe) on the shortest way round.
                         bool throughWind = Math.Abs(twa) + Math.Abs(wantTwa) < 2 * Math.PI - Math.Abs(twa) - Math.Abs(wantTwa);
                         m.Kind = throughWind ? Manoeuvre.Tack : Manoeuvre.Gybe;
+                        _turnStartS[b] = Time; _turnStartNearestM[b] = _nearestM[b];
                         m.Phase = 0; m.Timer = 0; m.ExitHeading = intent.Heading;
                         m.TurnSign = throughWind ? Math.Sign(twa) : -Math.Sign(twa);
                     }

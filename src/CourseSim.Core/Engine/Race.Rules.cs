@@ -14,10 +14,16 @@ public sealed record RaceIncident(double TimeS, double X, double Y, int KeepClea
 
 public sealed partial class Race
 {
-    /// <summary>How far the lookout scans for other boards, m (model value: about 8 s at a fast closing speed).</summary>
-    public const double LookoutRangeM = 60;
+    /// <summary>How far the lookout scans for other boards, m (model value: 6 s at the closing speed of two planing boards).</summary>
+    public const double LookoutRangeM = 100;
     /// <summary>Centre-to-centre passing distance below which a rider sees a conflict, m (model value: under two board lengths).</summary>
-    public const double ConflictM = 4.5;
+    public const double ConflictM = 6;
+    /// <summary>Extra conflict distance per m/s of closing speed, m (model value).</summary>
+    public const double ConflictPerMs = 0.3;
+    /// <summary>A rider does not start a tack or gybe that would bring any board within this many conflict distances (RRS 13, 15, 16; model value).</summary>
+    public const double TurnMarginShare = 2;
+    /// <summary>A tack or gybe begun with another board this close (centre distance, m) counts as begun too close if contact follows within <see cref="TurnTooCloseS"/> (model value).</summary>
+    public const double TurnTooCloseM = 12, TurnTooCloseS = 6;
     /// <summary>Time ahead a rider looks for conflicts, s (model value).</summary>
     public const double LookaheadS = 8;
     /// <summary>A right-of-way board acts (RRS 14) when contact is this close in time and the other is not keeping clear, s (model value).</summary>
@@ -31,11 +37,13 @@ public sealed partial class Race
     public IReadOnlyList<RaceIncident> Incidents => _incidents;
 
     bool[] _avoidOn = [];
+    int[] _avoidOther = [];
+    string[] _avoidRule = [];
     double[] _avoidAt = [], _avoidH = [], _avoidP = [], _desH = [], _nearestM = [];
     int[] _penaltyOwed = [], _penaltyStage = [], _penaltySign = [], _penaltiesTaken = [], _giveWays = [];
-    double[] _penaltyStageAt = [];
+    double[] _penaltyStageAt = [], _turnStartS = [], _turnStartNearestM = [];
     // Lookout snapshot of the fleet.
-    double[] _sx = [], _sy = [], _sh = [], _st = [], _sv = [], _sFrom = [];
+    double[] _sx = [], _sy = [], _sh = [], _st = [], _sv = [], _sa = [], _sFrom = [];
     bool[] _sLive = [], _sTacking = [], _sCapsized = [], _sBusy = [];
     int[] _sNext = [];
     long[] _cellKey = []; int[] _cellOrder = [];
@@ -50,11 +58,12 @@ public sealed partial class Race
     void EnsureRuleArrays()
     {
         int n = BoardCount;
-        _avoidOn = new bool[n]; _avoidAt = new double[n]; _avoidH = new double[n]; _avoidP = new double[n]; _desH = new double[n];
+        _avoidOn = new bool[n]; _avoidOther = new int[n]; _avoidRule = new string[n]; _avoidAt = new double[n]; _avoidH = new double[n]; _avoidP = new double[n]; _desH = new double[n];
         _nearestM = new double[n]; Array.Fill(_nearestM, double.PositiveInfinity);
         _penaltyOwed = new int[n]; _penaltyStage = new int[n]; _penaltySign = new int[n]; _penaltiesTaken = new int[n]; _giveWays = new int[n];
-        _penaltyStageAt = new double[n];
-        _sx = new double[n]; _sy = new double[n]; _sh = new double[n]; _st = new double[n]; _sv = new double[n]; _sFrom = new double[n];
+        _penaltyStageAt = new double[n]; _turnStartS = new double[n]; Array.Fill(_turnStartS, double.NegativeInfinity);
+        _turnStartNearestM = new double[n];
+        _sx = new double[n]; _sy = new double[n]; _sh = new double[n]; _st = new double[n]; _sa = new double[n]; _sv = new double[n]; _sFrom = new double[n];
         _sLive = new bool[n]; _sTacking = new bool[n]; _sCapsized = new bool[n]; _sBusy = new bool[n]; _sNext = new int[n];
         _cellKey = new long[n]; _cellOrder = new int[n];
         _lookoutEvery = Math.Max(1, (int)Math.Round(Settings.StepHz / Math.Min(Setup.Rules.LookoutHz, Settings.StepHz)));
@@ -90,6 +99,9 @@ public sealed partial class Race
             {
                 int b = ids[i].Value;
                 _sLive[b] = st[i].State is not (RaceState.Finished or RaceState.NotFinished);
+                // The acceleration a rider reads from the other's speed since the last look (clamped: a board gathers or loses
+                // speed at a few m/s per second at most).
+                _sa[b] = Math.Clamp((mo[i].Speed - _sv[b]) / (_lookoutEvery * Dt), -2, 2);
                 _sx[b] = pose[i].X; _sy[b] = pose[i].Y; _sh[b] = pose[i].Heading; _st[b] = Math.Atan2(mo[i].TrackSin, mo[i].TrackCos); _sv[b] = mo[i].Speed; _sFrom[b] = sw[i].TrueFromDeg;
                 ref readonly var m = ref man[i];
                 // Appendix B, rule 13 as changed: from passing head to wind until the sail has filled (the crossing,
@@ -206,8 +218,88 @@ public sealed partial class Race
         return (t, Math.Sqrt(dx * dx + dy * dy));
     }
 
+    /// <summary>Hull-to-hull gap a give-way rider aims to keep when passing slowly, m, and the extra per m/s of closing speed (model values).</summary>
+    public const double PassClearM = 2.5, PassClearPerMs = 0.25;
+
+    double PassClear(int a, double h, double v, int b) => PassClearM + PassClearPerMs * ClosingSpeed(a, h, v, b);
+
+    /// <summary>Relative speed of b seen from a (a making good track h at v), m/s.</summary>
+    double ClosingSpeed(int a, double h, double v, int b)
+    {
+        double vx = _sv[b] * Math.Sin(_st[b]) - v * Math.Sin(h), vy = _sv[b] * Math.Cos(_st[b]) - v * Math.Cos(h);
+        return Math.Sqrt(vx * vx + vy * vy);
+    }
+
+    /// <summary>Score preference for ducking astern over a fixed turn of the same size (model value, degrees of turn).</summary>
+    public const double DuckPreference = 15;
+
+    /// <summary>The track (rad) from board a at speed v that meets the point astern of board b where b will then be.</summary>
+    double DuckTrack(int a, int b, double v)
+    {
+        double lb = _rig[b].Physics.Equipment.Board.LengthM;
+        double back = 0.5 * lb + PassClearM + 2;
+        double px = _sx[b] - back * Math.Sin(_sh[b]), py = _sy[b] - back * Math.Cos(_sh[b]);
+        double vx = _sv[b] * Math.Sin(_st[b]), vy = _sv[b] * Math.Cos(_st[b]);
+        // Lead: two passes of the fixed-point estimate of the meeting time.
+        double t = 0;
+        for (int i = 0; i < 2; i++)
+        {
+            double dx = px + vx * t - _sx[a], dy = py + vy * t - _sy[a];
+            t = Math.Min(LookaheadS, Math.Sqrt(dx * dx + dy * dy) / Math.Max(v, 0.5));
+        }
+        return Math.Atan2(px + vx * t - _sx[a], py + vy * t - _sy[a]);
+    }
+
+    /// <summary>
+    /// Smallest gap between the two hulls over the next seconds (sampled every half second to 6 s), board a making
+    /// good track h at speed v and b holding its track and speed, each hull along its heading.
+    /// </summary>
+    double PredictedHullGap(int a, double h, double v, int b)
+    {
+        double la = _rig[a].Physics.Equipment.Board.LengthM, lb = _rig[b].Physics.Equipment.Board.LengthM;
+        double ha = Unit.RadToDeg(h), hb = Unit.RadToDeg(_sh[b]);
+        double sa = Math.Sin(h), ca = Math.Cos(h), sb = Math.Sin(_st[b]), cb = Math.Cos(_st[b]);
+        double gap = double.PositiveInfinity;
+        for (int i = 0; i <= 12; i++)
+        {
+            double tau = 0.5 * i;
+            double db = Math.Max(0, _sv[b] * tau + 0.5 * _sa[b] * tau * tau); // b's run along its track, with its acceleration
+            var ra = new RuleBoard(_sx[a] + v * tau * sa, _sy[a] + v * tau * ca, ha, la);
+            var rb = new RuleBoard(_sx[b] + db * sb, _sy[b] + db * cb, hb, lb);
+            gap = Math.Min(gap, RightOfWay.HullDistance(ra, rb));
+        }
+        return gap;
+    }
+
     // The boards a rider must act for this lookout, reused.
     readonly List<int> _threats = new();
+
+    /// <summary>
+    /// Fills <see cref="_threats"/> with the boards board k must act for if it makes good track h at speed v: those it
+    /// must keep clear of (or, when <paramref name="turning"/>, any board: RRS 15 and 16) passing within the margin in
+    /// the lookahead, and right-of-way boards about to hit it that are not keeping clear themselves (RRS 14).
+    /// </summary>
+    bool Threats(int k, double h, double v, double margin, bool turning, ref int firstOther, ref string firstRule)
+    {
+        _threats.Clear();
+        foreach (var (a, b) in _near)
+        {
+            if (a != k && b != k) continue;
+            int j = a == k ? b : a;
+            var (keep, rule) = Judge(k, h, j);
+            var (t, d) = Cpa(k, h, v, j);
+            // Faster closing, wider berth (the same rule of thumb as the passing gap).
+            double m = margin + ConflictPerMs * ClosingSpeed(k, h, v, j);
+            if (d >= m || t >= LookaheadS) { if (keep == k && !turning) _foreseen.Remove(PairKey(k, j)); continue; }
+            bool mine = keep == k || turning && keep >= 0;
+            bool lastMoment = keep == j && t < LastMomentS && !(_avoidOn[j] && Time >= _avoidAt[j]);
+            if (keep == k && (!_foreseen.TryGetValue(PairKey(k, j), out var seen) || seen.Rule != rule)) _foreseen[PairKey(k, j)] = (Time, k, rule, _sh[j]);
+            if (!mine && !lastMoment) continue;
+            _threats.Add(j);
+            if (firstOther < 0) { firstOther = j; firstRule = keep == k ? rule : turning ? "16" : "14"; }
+        }
+        return _threats.Count > 0;
+    }
 
     void LookoutOne(int k)
     {
@@ -215,60 +307,71 @@ public sealed partial class Race
         // What the rider is about to do: a decision still in their reaction time is what they look out for.
         bool pending = !double.IsPositiveInfinity(_pendAt[k]) && _penaltyStage[k] == 0;
         double want = pending ? _pendH[k] : _desH[k];
-        // Wanting the other tack: the rider foresees being nearly stopped through the tack (model value: a third of the speed).
-        bool turning = Math.Sign(SignedAngle(_sFrom[k], want)) != Math.Sign(SignedAngle(_sFrom[k], _sh[k]));
-        double va = turning ? 0.3 * _sv[k] : Math.Max(_sv[k], 1.0);
-        _threats.Clear();
-        int firstOther = -1; string firstRule = "";
-        bool any = false;
-        double margin = _avoidOn[k] ? ConflictM * 1.3 : ConflictM; // hysteresis: release only when clearly clear
-        foreach (var (a, b) in _near)
-        {
-            if (a != k && b != k) continue;
-            int j = a == k ? b : a;
-            var (keep, rule) = Judge(k, want, j);
-            var (t, d) = Cpa(k, want, va, j);
-            if (d >= margin || t >= LookaheadS) { if (keep == k) _foreseen.Remove(PairKey(k, j)); continue; }
-            bool mine = keep == k;
-            bool lastMoment = keep == j && t < LastMomentS && !(_avoidOn[j] && Time >= _avoidAt[j]);
-            if (mine && !_foreseen.ContainsKey(PairKey(k, j))) _foreseen[PairKey(k, j)] = (Time, k, rule, _sh[j]);
-            if (!mine && !lastMoment) continue;
-            _threats.Add(j); any = true;
-            if (firstOther < 0) { firstOther = j; firstRule = mine ? rule : "14"; }
-        }
-        if (!any) { _avoidOn[k] = false; return; }
-        // The least change that clears every threat: headings on the present tack either side of the one wanted (or
-        // the present heading, if the one wanted is on the other tack: the tack is put off), full power or slowing.
         double from = _sFrom[k];
-        double cur = _st[k];
         int side = Math.Sign(SignedAngle(from, _sh[k])); if (side == 0) side = 1;
-        double baseH = Math.Sign(SignedAngle(from, want)) == side ? want : cur;
-        double bestCost = double.PositiveInfinity, bestH = baseH, bestP = 1, bestWorst = -1, fallbackH = baseH, fallbackP = 0;
-        ReadOnlySpan<double> offsets = [0, 10, -10, 20, -20, 30, -30, 45, -45, 60, -60, 80, -80];
-        for (int slow = 0; slow < 2; slow++)
-            foreach (double off in offsets)
+        // Wanting the other tack: the rider foresees being nearly stopped through the tack (model value: a third of the speed).
+        bool turning = Math.Sign(SignedAngle(from, want)) != side;
+        // Until a pending decision takes effect the present one still steers: a tack it asks for is vetted too.
+        if (!turning && Math.Sign(SignedAngle(from, _desH[k])) != side) { want = _desH[k]; turning = true; }
+        double va = turning ? 0.3 * _sv[k] : Math.Max(_sv[k], 1.0);
+        int firstOther = -1; string firstRule = "";
+        double margin = _avoidOn[k] ? ConflictM * 1.3 : ConflictM; // hysteresis: release only when clearly clear
+        if (!Threats(k, want, va, turning ? margin * TurnMarginShare : margin, turning, ref firstOther, ref firstRule))
+        {
+            _avoidOn[k] = false; return;
+        }
+        double cur = _st[k];
+        double baseH = want;
+        if (turning)
+        {
+            // The tack or gybe is put off: the rider stays on the present tack, keeping clear there as the rules ask.
+            baseH = cur; va = Math.Max(_sv[k], 1.0);
+            int o2 = -1; string r2 = "";
+            if (!Threats(k, cur, va, margin, false, ref o2, ref r2))
             {
+                StartAvoiding(k, pending, firstOther, firstRule);
+                _avoidH[k] = cur; _avoidP[k] = 1;
+                return;
+            }
+        }
+        // Each candidate is scored by how far it turns from what the rider wants, plus a large charge for any
+        // clearance short of the margin (so the clearest is taken when none clears fully), less a bonus for the way of
+        // keeping clear already chosen (riders do not dither between ducking and slowing).
+        double bestScore = double.PositiveInfinity, bestH = baseH, bestP = 1;
+        // Besides fixed turns either way, the duck: the track that passes astern of the nearest threat, led for its
+        // motion (aim at a point a length and a clearance behind its stern, where it will be when the rider gets there).
+        Span<double> offsets = stackalloc double[18];
+        ReadOnlySpan<double> fixedOffsets = [0, 10, -10, 20, -20, 30, -30, 45, -45, 60, -60, 80, -80, 100, -100, 120, -120];
+        fixedOffsets.CopyTo(offsets);
+        offsets[17] = Unit.RadToDeg(Unit.WrapRadPi(DuckTrack(k, _threats[0], va) - baseH));
+        for (int slow = 0; slow < 2; slow++)
+            for (int oi = 0; oi < offsets.Length; oi++)
+            {
+                double off = offsets[oi];
                 double h = Unit.WrapRadPi(baseH + Unit.DegToRad(off));
                 double twa = SignedAngle(from, h);
                 if (Math.Sign(twa) != side || Math.Abs(twa) < Unit.DegToRad(AvoidMinTwaDeg) || Math.Abs(twa) > Unit.DegToRad(178)) continue;
-                double v = slow == 1 ? 0.35 * _sv[k] : va;
+                // Luffing stops a board within a few lengths; sheeting out on a run hardly slows it (model values).
+                double v = slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.35 : 0.85) * _sv[k] : va;
                 double worst = double.PositiveInfinity;
-                foreach (int j in _threats) { var (t, d) = Cpa(k, h, v, j); worst = Math.Min(worst, t >= LookaheadS ? double.PositiveInfinity : d); }
-                double cost = Math.Abs(off) + (slow == 1 ? 25 : 0);
-                // Riders stick to the way of keeping clear they chose (no dithering between ducking and slowing).
-                if (_avoidOn[k] && (slow == 1) == (_avoidP[k] == 0) && Math.Abs(Unit.WrapRadPi(h - _avoidH[k])) < Unit.DegToRad(6)) cost -= 15;
-                if (worst >= margin && cost < bestCost) { bestCost = cost; bestH = h; bestP = slow == 1 ? 0 : 1; }
-                if (worst > bestWorst) { bestWorst = worst; fallbackH = h; fallbackP = slow == 1 ? 0 : 1; }
+                foreach (int j in _threats) worst = Math.Min(worst, PredictedHullGap(k, h, v, j) - PassClear(k, h, v, j));
+                double score = Math.Abs(off) + (slow == 1 ? 25 : 0) + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);
+                if (_avoidOn[k] && (slow == 1) == (_avoidP[k] == 0) && Math.Abs(Unit.WrapRadPi(h - _avoidH[k])) < Unit.DegToRad(6)) score -= 15;
+                if (score < bestScore) { bestScore = score; bestH = h; bestP = slow == 1 ? 0 : 1; }
             }
-        if (double.IsPositiveInfinity(bestCost)) { bestH = fallbackH; bestP = fallbackP; }
-        if (!_avoidOn[k])
-        {
-            _avoidOn[k] = true; _avoidAt[k] = Time + _reactionS[k]; _giveWays[k]++;
-            if (pending) _avoidAt[k] = Math.Min(_avoidAt[k], _pendAt[k]); // seen while deciding: acted on with it
-            _events.Add(new RaceEvent(Time, k, RaceEventKind.GiveWay, _sx[k], _sy[k],
-                $"keeps clear of {Setup.Boards[firstOther].Name} (rule {firstRule})"));
-        }
+        StartAvoiding(k, pending, firstOther, firstRule);
         _avoidH[k] = bestH; _avoidP[k] = bestP;
+    }
+
+    void StartAvoiding(int k, bool pending, int other, string rule)
+    {
+        if (_avoidOn[k] && _avoidOther[k] == other && _avoidRule[k] == rule) return;
+        // A new give-way episode (or the same rider now keeping clear of another board, or under another rule).
+        if (!_avoidOn[k]) _avoidAt[k] = Time + _reactionS[k];
+        _avoidOn[k] = true; _avoidOther[k] = other; _avoidRule[k] = rule; _giveWays[k]++;
+        if (pending) _avoidAt[k] = Math.Min(_avoidAt[k], _pendAt[k]); // seen while deciding: acted on with it
+        _events.Add(new RaceEvent(Time, k, RaceEventKind.GiveWay, _sx[k], _sy[k],
+            rule == "16" ? $"puts off a tack or gybe near {Setup.Boards[other].Name} (rule 16)" : $"keeps clear of {Setup.Boards[other].Name} (rule {rule})"));
     }
 
     /// <summary>Every step: the close pairs are checked for contact (hulls within race.contact_m), which is judged once per contact.</summary>
@@ -303,8 +406,10 @@ public sealed partial class Race
         }
         long key = PairKey(a, b);
         int keep; string rule; double since = double.NaN, rowHeading = double.NaN;
-        if (_foreseen.TryGetValue(key, out var f)) { keep = f.KeepClear; rule = f.Rule; since = f.Since; rowHeading = f.RowHeading; }
-        else (keep, rule) = Judge(a, _sh[a], b);
+        // The verdict of the moment (positions of the contact, tacks and manoeuvres from the last lookout); the
+        // warning the keep-clear rider had is how long the lookout had seen this conflict with the same verdict.
+        (keep, rule) = Judge(a, _sh[a], b);
+        if (_foreseen.TryGetValue(key, out var f) && f.KeepClear == keep && f.Rule == rule) { since = f.Since; rowHeading = f.RowHeading; }
         int row = keep == a ? b : keep == b ? a : -1;
         bool capsized = rule == "22" || keep < 0;
         string detail; bool avoidable = false;
@@ -314,9 +419,11 @@ public sealed partial class Race
             double warning = double.IsNaN(since) ? 0 : Time - since;
             double turned = double.IsNaN(rowHeading) ? 0 : Math.Abs(Unit.RadToDeg(Unit.WrapRadPi(_sh[row] - rowHeading)));
             bool busy = _sBusy[keep];
+            bool tooClose = Time - _turnStartS[keep] < TurnTooCloseS && _turnStartNearestM[keep] < TurnTooCloseM;
             if (!Setup.Rules.GiveWay) detail = "give-way logic off";
+            else if (tooClose) { avoidable = true; detail = $"keep-clear board began a tack or gybe {Time - _turnStartS[keep]:F1} s before with a board {_turnStartNearestM[keep]:F0} m away"; }
             else if (turned > 15) detail = $"right-of-way board changed course by {turned:F0} deg";
-            else if (busy) detail = "keep-clear board mid-manoeuvre";
+            else if (busy) detail = "keep-clear board mid-manoeuvre (begun well clear)";
             else if (warning < _reactionS[keep] + 1.0) detail = $"seen {warning:F1} s before contact";
             else { avoidable = true; detail = $"seen {warning:F1} s before contact and not avoided"; }
         }
@@ -347,7 +454,8 @@ public sealed partial class Race
                 if (Math.Abs(twa) < Unit.DegToRad(60)) Next(2);
                 break;
             case 2:
-                h = At(-s * 45);
+                // The tack waits until well clear (not once begun).
+                h = _nearestM[b] < WellClearM && man.Kind == Manoeuvre.None && Math.Sign(twa) == s ? At(s * 45) : At(-s * 45);
                 if (man.Kind == Manoeuvre.None && Math.Sign(twa) == -s) Next(3);
                 break;
             case 3:
@@ -355,7 +463,7 @@ public sealed partial class Race
                 if (Math.Abs(twa) > Unit.DegToRad(130)) Next(4);
                 break;
             case 4:
-                h = At(s * 150);
+                h = _nearestM[b] < WellClearM && man.Kind == Manoeuvre.None && Math.Sign(twa) == -s ? At(-s * 150) : At(s * 150); // so does the gybe
                 if (man.Kind == Manoeuvre.None && Math.Sign(twa) == s)
                 {
                     _penaltyStage[b] = 0; _penaltyOwed[b]--; _penaltiesTaken[b]++; _lastTurn[b] = Time;

@@ -17,6 +17,8 @@ public sealed partial class Race
     public const double CloseRunM = 40;
     /// <summary>Time a luffing board takes to coast to a stop, s, for the start approach (model value).</summary>
     public const double CoastS = 2;
+    /// <summary>True wind angle a rider holds while waiting below the line, deg (common practice: luffing on a close reach).</summary>
+    public const double HoldTwaDeg = 60;
 
     double[] _lastTurn = [];
     bool[] _holding = [], _going = [];
@@ -143,7 +145,7 @@ public sealed partial class Race
         if (_penaltyOwed[b] > 0 && _penaltyStage[b] == 0) MaybeStartPenalty(b, in pose, in sw, in man, in st);
         if (_penaltyStage[b] > 0) PenaltyIntent(b, in pose, in sw, in man, ref h, ref pw);
         _desH[b] = h;
-        if (_avoidOn[b] && Time >= _avoidAt[b]) { h = _avoidH[b]; pw = Math.Min(pw, _avoidP[b]); }
+        if (_avoidOn[b] && Time >= _avoidAt[b]) { h = _avoidH[b]; pw = _avoidP[b]; }
         it.Heading = h; it.Power = pw; it.TargetSpeed = _wantV[b];
     }
 
@@ -195,7 +197,12 @@ public sealed partial class Race
                         power = early ? 0 : 1;
                     }
                     else if (!_holding[b]) { heading = LegHeading(b, p, _wait[b], tws, from, tack, true); power = 0.6; }
-                    else { heading = pose.Heading; power = 0; }
+                    else
+                    {
+                        // Holding: luffing with the board kept well off the wind on its present tack (a board left
+                        // to drift head to wind falls into irons and tacks by itself).
+                        heading = Unit.WrapRadPi(Unit.DegToRad(from) - tack * Unit.DegToRad(HoldTwaDeg)); power = 0;
+                    }
                     break;
                 }
             case RaceState.PreStart:
