@@ -46,6 +46,8 @@ public static class RaceCommand
         var console = Terminal.For(stdout);
         console.Write(ResultsTable(race, result, name));
         console.MarkupLine("[grey]T/G/F: tacks, gybes, falls. km: distance sailed from the signal. Legs from the signal.[/]");
+        if (result.Incidents.Count > 0) console.Write(IncidentsTable(race, result));
+        else console.MarkupLine("[grey]No contact between boards.[/]");
         int unfinished = result.Boards.Count(b => !b.Finished);
         long boardSteps = race.StepIndex * race.BoardCount;
         console.MarkupLine(Markup.Escape($"{result.Boards.Count - unfinished} of {result.Boards.Count} finished; seed {race.Seed}; " +
@@ -96,6 +98,7 @@ public static class RaceCommand
             if (!b.Finished) notes.Add("did not finish");
             if (b.Ocs) notes.Add("early start");
             if (b.WrongSide > 0) notes.Add($"wrong side x{b.WrongSide}");
+            if (b.Penalties > 0) notes.Add($"penalty turn x{b.Penalties}");
             rows.Add([b.Place?.ToString(CultureInfo.InvariantCulture) ?? "-", b.Name, b.ElapsedS is double e ? Clock(e) : "-",
                 b.GapS is double g ? "+" + Clock(g) : "-", Legs(b.SplitsS), F(b.DistanceM / 1000, "0.00"), F(b.AverageSpeedMs / 0.514444, "0.0"),
                 string.Create(CultureInfo.InvariantCulture, $"{b.Tacks}/{b.Gybes}/{b.Falls}"), string.Join("; ", notes)]);
@@ -111,6 +114,20 @@ public static class RaceCommand
         return t;
     }
 
+
+    /// <summary>Every contact: when (from the signal), where, who was to keep clear, under which rule, and the outcome.</summary>
+    static Table IncidentsTable(Race race, RaceResult result)
+    {
+        var t = new Table().Border(TableBorder.Simple).Title("[bold]Contacts[/] (rules as applied: docs/tactics.md)");
+        foreach (var h in new[] { "time", "x, y m", "keep clear", "other", "rule", "penalty", "judgement" }) t.AddColumn(new TableColumn(h));
+        foreach (var i in result.Incidents)
+        {
+            string who(int b) => b < 0 ? "-" : race.Setup.Boards[b].Name;
+            t.AddRow(Markup.Escape(Clock(Math.Abs(i.TimeS)) + (i.TimeS < 0 ? " before" : "")), Markup.Escape(F(i.X, "0") + ", " + F(i.Y, "0")),
+                Markup.Escape(who(i.KeepClear)), Markup.Escape(who(i.RightOfWay)), i.Rule, i.Penalty ? "one turn" : "-", Markup.Escape(i.Detail));
+        }
+        return t;
+    }
 
     /// <summary>Leg times from the split times (the first leg from the signal).</summary>
     static string Legs(IReadOnlyList<double> splits)
@@ -145,17 +162,18 @@ public static class RaceCommand
         Directory.CreateDirectory(tracks);
         AtomicFile.WriteAllText(Path.Combine(dir, "results.csv"), ResultsCsv(race, result));
         AtomicFile.WriteAllText(Path.Combine(dir, "summary.json"), SummaryJson(race, result) + "\n");
+        AtomicFile.WriteAllText(Path.Combine(dir, "incidents.csv"), IncidentsCsv(race, result));
         AtomicFile.WriteAllBytes(Path.Combine(dir, "replay.msgpack"), ReplayFile.Write(race, result));
         for (int b = 0; b < race.BoardCount; b++)
             AtomicFile.WriteAllText(Path.Combine(tracks, $"{b + 1:00}-{PolarCommand.Slug(race.Setup.Boards[b].Name)}.gpx"), Gpx.Track(race, b));
-        return ["results.csv", "summary.json", "replay.msgpack", $"tracks/ ({race.BoardCount} GPX files)"];
+        return ["results.csv", "summary.json", "incidents.csv", "replay.msgpack", $"tracks/ ({race.BoardCount} GPX files)"];
     }
 
     static string ResultsCsv(Race race, RaceResult result)
     {
         int legs = race.Course.Steps.Count;
         var sb = new StringBuilder();
-        sb.Append("place,board,name,equipment,finished,elapsed_s,gap_s,distance_m,avg_speed_kn,tacks,gybes,falls,ocs,wrong_side");
+        sb.Append("place,board,name,equipment,finished,elapsed_s,gap_s,distance_m,avg_speed_kn,tacks,gybes,falls,ocs,wrong_side,penalties,give_ways");
         for (int i = 1; i <= legs; i++) sb.Append(CultureInfo.InvariantCulture, $",leg_{i}_s");
         sb.Append('\n');
         foreach (var b in result.ByPlace)
@@ -164,7 +182,7 @@ public static class RaceCommand
               .Append(Csv(b.Name)).Append(',').Append(Csv(b.Equipment)).Append(',').Append(b.Finished ? "true" : "false").Append(',')
               .Append(N(b.ElapsedS)).Append(',').Append(N(b.GapS)).Append(',').Append(N(b.DistanceM)).Append(',').Append(N(b.AverageSpeedMs / 0.514444))
               .Append(',').Append(b.Tacks).Append(',').Append(b.Gybes).Append(',').Append(b.Falls).Append(',').Append(b.Ocs ? "true" : "false")
-              .Append(',').Append(b.WrongSide);
+              .Append(',').Append(b.WrongSide).Append(',').Append(b.Penalties).Append(',').Append(b.GiveWays);
             double prev = 0;
             for (int i = 0; i < legs; i++)
             {
@@ -173,6 +191,17 @@ public static class RaceCommand
             }
             sb.Append('\n');
         }
+        return sb.ToString();
+    }
+
+    static string IncidentsCsv(Race race, RaceResult result)
+    {
+        var sb = new StringBuilder("time_s,x_m,y_m,keep_clear,right_of_way,rule,penalty,avoidable,detail\n");
+        string who(int b) => b < 0 ? "" : Csv(race.Setup.Boards[b].Name);
+        foreach (var i in result.Incidents)
+            sb.Append(N(i.TimeS)).Append(',').Append(N(i.X)).Append(',').Append(N(i.Y)).Append(',').Append(who(i.KeepClear)).Append(',')
+              .Append(who(i.RightOfWay)).Append(',').Append(i.Rule).Append(',').Append(i.Penalty ? "true" : "false").Append(',')
+              .Append(i.Avoidable ? "true" : "false").Append(',').Append(Csv(i.Detail)).Append('\n');
         return sb.ToString();
     }
 
@@ -191,7 +220,14 @@ public static class RaceCommand
         {
             name = b.Name, place = b.Place, elapsed_s = b.ElapsedS, finished = b.Finished, distance_m = b.DistanceM, tacks = b.Tacks, gybes = b.Gybes,
             falls = b.Falls, gap_s = b.GapS, equipment = b.Equipment, ocs = b.Ocs, wrong_side = b.WrongSide, splits_s = b.SplitsS,
-            average_speed_kn = b.AverageSpeedMs / 0.514444,
+            average_speed_kn = b.AverageSpeedMs / 0.514444, penalties = b.Penalties, give_ways = b.GiveWays,
+        }),
+        incidents = result.Incidents.Select(i => new
+        {
+            time_s = i.TimeS, x_m = i.X, y_m = i.Y,
+            keep_clear = i.KeepClear < 0 ? null : race.Setup.Boards[i.KeepClear].Name,
+            right_of_way = i.RightOfWay < 0 ? null : race.Setup.Boards[i.RightOfWay].Name,
+            rule = i.Rule, penalty = i.Penalty, avoidable = i.Avoidable, detail = i.Detail,
         }),
         caution = Caution.Text,
     });

@@ -9,8 +9,10 @@ public sealed partial class Race
     public const double PumpBelowShare = 0.95;
 
     /// <summary>Signed true wind angle (rad): positive when the wind comes over the starboard side (starboard tack).</summary>
-    /// <summary>Least angle of the bow to the true wind outside a tack, deg (common practice: a board stops drawing closer than about 20 deg).</summary>
-    public const double MinPointDeg = 20;
+    /// <summary>Least angle of the bow to the true wind outside a tack, deg (common practice: a board stalls closer than about 30 deg).</summary>
+    public const double MinPointDeg = 30;
+    /// <summary>Speed below which <see cref="MinPointDeg"/> applies, m/s (model value: a board barely under way).</summary>
+    public const double MinPointBelowMs = 2;
 
     public static double SignedAngle(double fromDeg, double headingRad) => Unit.WrapRadPi(Unit.DegToRad(fromDeg) - headingRad);
 
@@ -184,10 +186,10 @@ public sealed partial class Race
         if (man.Kind is Manoeuvre.Tack or Manoeuvre.Gybe && man.Phase < 2) d = man.TurnSign * Math.PI; // keep turning the chosen way
         if (man.Kind == Manoeuvre.Fallen) d = 0;
         double turn = Math.Clamp(d, -rate * Dt, rate * Dt);
-        if (man.Kind == Manoeuvre.None)
+        if (man.Kind == Manoeuvre.None && v < MinPointBelowMs)
         {
-            // Out of a tack a rider never lets the bow come closer to the wind than MinPointDeg (at low speed, with
-            // large leeway, holding the track would otherwise pinch the board into irons and round onto the other tack).
+            // Slow and out of a tack, a rider never lets the bow come closer to the wind than MinPointDeg (with the large
+            // leeway of a slow board, holding the track would otherwise pinch it into irons and round onto the other tack).
             double minPoint = Unit.DegToRad(MinPointDeg), twa = t.TrueAngleRad;
             if (side > 0 && twa - turn < minPoint) turn = Math.Min(turn, Math.Max(0, twa - minPoint));
             else if (side < 0 && twa - turn > -minPoint) turn = Math.Max(turn, Math.Min(0, twa + minPoint));

@@ -351,8 +351,9 @@ public sealed partial class Race
                 double h = Unit.WrapRadPi(baseH + Unit.DegToRad(off));
                 double twa = SignedAngle(from, h);
                 if (Math.Sign(twa) != side || Math.Abs(twa) < Unit.DegToRad(AvoidMinTwaDeg) || Math.Abs(twa) > Unit.DegToRad(178)) continue;
-                // Luffing stops a board within a few lengths; sheeting out on a run hardly slows it (model values).
-                double v = slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.35 : 0.85) * _sv[k] : va;
+                // Luffing, a board coasts to a stop over a few seconds (mean speed over the next three seconds about 60 %
+                // of the present one); sheeting out on a run hardly slows it (model values).
+                double v = slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.6 : 0.85) * _sv[k] : va;
                 double worst = double.PositiveInfinity;
                 foreach (int j in _threats) worst = Math.Min(worst, PredictedHullGap(k, h, v, j) - PassClear(k, h, v, j));
                 double score = Math.Abs(off) + (slow == 1 ? 25 : 0) + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);

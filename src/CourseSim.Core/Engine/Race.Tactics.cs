@@ -217,6 +217,7 @@ public sealed partial class Race
                 heading = Unit.WrapRadPi(Unit.DegToRad(d.HeadingDeg));
                 power = double.IsFinite(d.Power) ? Math.Clamp(d.Power, 0, 1) : 1;
                 if (!double.IsFinite(heading)) heading = pose.Heading;
+                heading = MarkSideGuard(b, st.NextStep, p, heading, tws, from, tack);
                 break;
             }
         }
@@ -246,14 +247,18 @@ public sealed partial class Race
         double twa = Unit.RadToDeg(SignedAngle(from, pose.Heading));
         o.TrueWindAngleDeg = twa; o.Tack = twa >= 0 ? 1 : -1;
         o.Course = Course; o.NextStep = st.NextStep; o.Polar = _rigs[b]; o.LastTurnS = _lastTurn[b];
-        var aim = AimPoint(st.NextStep, p);
+        // Riders plan from where they will be when the decision takes effect (reaction time and half a decision
+        // interval ahead along their heading), so a layline or a mark is not noticed only once passed.
+        double lead = _reactionS[b] + 0.5 * _decisionS;
+        var pl = p + lead * speed * Vec2.FromBearing(Unit.RadToDeg(pose.Heading));
+        var aim = AimPoint(st.NextStep, pl);
         o.AimPoint = aim;
-        double direct = Math.Abs(Unit.RadToDeg(SignedAngle(from, Unit.DegToRad((aim - p).Bearing))));
+        double direct = Math.Abs(Unit.RadToDeg(SignedAngle(from, Unit.DegToRad((aim - pl).Bearing))));
         double up = Unit.RadToDeg(_rigs[b].BestTwa(tws, true)), down = Unit.RadToDeg(_rigs[b].BestTwa(tws, false));
-        o.Leg = direct < up ? LegKind.Beat : direct > down && (aim - p).Length > CloseRunM ? LegKind.Run : LegKind.Reach;
+        o.Leg = direct < up ? LegKind.Beat : direct > down && (aim - pl).Length > CloseRunM ? LegKind.Run : LegKind.Reach;
         var tactic = _tactics[b];
         o.Nearby = tactic.WantsNearby ? SeenFrom(b, p, _tacticRng.For(0x5EE0_0000UL + (ulong)b), (ulong)StepIndex * 4096) : [];
-        _nav!.Set(b, p, tws, from, o.Tack);
+        _nav!.Set(b, pl, tws, from, o.Tack);
         return tactic.Decide(o, _nav);
     }
 
@@ -292,6 +297,36 @@ public sealed partial class Race
             Unit.WrapDeg360(Unit.RadToDeg(race.LegHeading(_b, _p, target, _tws, _from, _tack, mayTurn)));
         public double AtTrueWindAngle(double twaDeg) => Unit.WrapDeg360(_from - twaDeg);
         public double BestAngle(bool upwind) => Unit.RadToDeg(race._rigs[_b].BestTwa(_tws, upwind));
+    }
+
+    /// <summary>How far ahead a rider checks which side of the next mark the present course passes it, m (model value).</summary>
+    public const double MarkSideLookM = 60;
+
+    /// <summary>
+    /// Whatever the tactic, a rider does not sail past a mark on the wrong side: when the mark is ahead within
+    /// <see cref="MarkSideLookM"/> and the course would leave it on the wrong hand (or closer than a board length), a
+    /// beating rider tacks and a running rider gybes onto the best VMG angle of the other tack (on a reach the aim point
+    /// already steers round it).
+    /// </summary>
+    double MarkSideGuard(int b, int step, Vec2 p, double heading, double tws, double fromDeg, int tack)
+    {
+        if (step >= Course.Steps.Count) return heading;
+        var s = Course.Steps[step];
+        if (s.Kind != StepKind.Mark) return heading;
+        var rel = s.Target - p;
+        double dist = rel.Length;
+        if (dist > MarkSideLookM || dist < 3) return heading;
+        var dir = Vec2.FromBearing(Unit.RadToDeg(heading));
+        if (Vec2.Dot(rel, dir) <= 0) return heading; // the mark is not ahead
+        double cross = Vec2.Cross(dir, rel); // positive: the mark lies to port of the course
+        bool correct = (cross > 0) == (s.Side == Rounding.Port) && Math.Abs(cross) >= 3;
+        if (correct) return heading;
+        double twa = Math.Abs(SignedAngle(fromDeg, heading));
+        int side = Math.Sign(SignedAngle(fromDeg, heading)); if (side == 0) side = tack;
+        var rig = _rigs[b];
+        if (twa < Unit.DegToRad(75)) return Unit.WrapRadPi(Unit.DegToRad(fromDeg) + side * rig.BestTwa(tws, true));
+        if (twa > Unit.DegToRad(120)) return Unit.WrapRadPi(Unit.DegToRad(fromDeg) + side * rig.BestTwa(tws, false));
+        return heading;
     }
 
     /// <summary>

@@ -9,6 +9,9 @@ public sealed record ReplayStep(string Kind, string Name, string Rounding, doubl
 /// <summary>An event of the race.</summary>
 public sealed record ReplayEvent(double TimeS, int Board, string Kind, double X, double Y, string Detail);
 
+/// <summary>A contact between boards as judged: time, place, the board to keep clear and the other (-1: none), rule, outcome.</summary>
+public sealed record ReplayIncident(double TimeS, double X, double Y, int KeepClear, int RightOfWay, string Rule, bool Penalty, bool Avoidable, string Detail);
+
 /// <summary>A board's result.</summary>
 public sealed record ReplayResult(int Board, int? Place, bool Finished, double? ElapsedS, double DistanceM, int Tacks, int Gybes, int Falls);
 
@@ -46,6 +49,7 @@ public sealed class ReplayData
     public byte[] Flags { get; init; } = [];
     public byte[] NextStep { get; init; } = [];
     public IReadOnlyList<ReplayEvent> Events { get; init; } = [];
+    public IReadOnlyList<ReplayIncident> Incidents { get; init; } = [];
     public IReadOnlyList<ReplayResult> Results { get; init; } = [];
     public ReplayWind? Wind { get; init; }
 

@@ -31,7 +31,7 @@ public static class ReplayFile
         var s = race.Setup;
         var rec = race.Recorder;
         int n = race.BoardCount;
-        w.WriteMapHeader(19);
+        w.WriteMapHeader(20);
         w.Write("engine"); w.Write(Race.EngineVersion);
         w.Write("scenario"); w.Write(s.Name);
         w.Write("venue"); w.Write(s.VenueName);
@@ -83,6 +83,14 @@ public static class ReplayFile
             w.WriteArrayHeader(6);
             w.Write(ev.TimeS); w.Write(ev.Board); w.Write(KindName(ev.Kind)); w.Write(ev.X); w.Write(ev.Y); w.Write(ev.Detail);
         }
+        w.Write("incidents");
+        w.WriteArrayHeader(result.Incidents.Count);
+        foreach (var i in result.Incidents)
+        {
+            w.WriteArrayHeader(9);
+            w.Write(i.TimeS); w.Write(i.X); w.Write(i.Y); w.Write(i.KeepClear); w.Write(i.RightOfWay); w.Write(i.Rule);
+            w.Write(i.Penalty); w.Write(i.Avoidable); w.Write(i.Detail);
+        }
         w.Write("results");
         w.WriteArrayHeader(result.Boards.Count);
         foreach (var r in result.Boards)
@@ -113,7 +121,9 @@ public static class ReplayFile
     {
         RaceEventKind.Started => "start", RaceEventKind.Ocs => "ocs", RaceEventKind.Cleared => "cleared", RaceEventKind.Rounded => "rounded",
         RaceEventKind.WrongSide => "wrong_side", RaceEventKind.Tack => "tack", RaceEventKind.Gybe => "gybe", RaceEventKind.Fall => "fall",
-        RaceEventKind.Finished => "finish", _ => "not_finished",
+        RaceEventKind.Finished => "finish", RaceEventKind.NotFinished => "not_finished", RaceEventKind.GiveWay => "give_way",
+        RaceEventKind.Contact => "contact", RaceEventKind.PenaltyServed => "penalty_taken",
+        _ => throw new ArgumentOutOfRangeException(nameof(k), k, "an event kind with no replay name"),
     };
 
     static float Pick(in BoardSample s, int c) => c switch
@@ -236,7 +246,7 @@ public static class ReplayFile
         double lat = 0, lon = 0, hz = 0, interval = 0, startS = 0, axis = 0;
         ulong seed = 0; int frames = 0;
         var boards = new List<ReplayBoard>(); var steps = new List<ReplayStep>(); var cols = new Dictionary<string, float[]>();
-        var events = new List<ReplayEvent>(); var results = new List<ReplayResult>();
+        var events = new List<ReplayEvent>(); var results = new List<ReplayResult>(); var incidents = new List<ReplayIncident>();
         double[] startLine = []; byte[] flags = [], next = [];
         ReplayWind? wind = null;
         for (int i = 0; i < count; i++)
@@ -304,6 +314,14 @@ public static class ReplayFile
                         events.Add(new ReplayEvent(r.ReadDouble(), r.ReadInt32(), r.ReadString() ?? "", r.ReadDouble(), r.ReadDouble(), r.ReadString() ?? ""));
                     }
                     break;
+                case "incidents":
+                    for (int n = r.ReadArrayHeader(), q = 0; q < n; q++)
+                    {
+                        r.ReadArrayHeader();
+                        incidents.Add(new ReplayIncident(r.ReadDouble(), r.ReadDouble(), r.ReadDouble(), r.ReadInt32(), r.ReadInt32(), r.ReadString() ?? "",
+                            r.ReadBoolean(), r.ReadBoolean(), r.ReadString() ?? ""));
+                    }
+                    break;
                 case "results":
                     for (int n = r.ReadArrayHeader(), q = 0; q < n; q++)
                     {
@@ -346,7 +364,7 @@ public static class ReplayFile
         {
             Version = version, Engine = engine, Scenario = scenario, Venue = venue, OriginLatDeg = lat, OriginLonDeg = lon, Seed = seed,
             StartTimeUtc = start, StepHz = hz, IntervalS = interval, StartS = startS, Frames = frames, Boards = boards, CourseKind = kind,
-            CourseAxisDeg = axis, StartLine = startLine, Steps = steps, Columns = cols, Flags = flags, NextStep = next, Events = events,
+            CourseAxisDeg = axis, StartLine = startLine, Steps = steps, Columns = cols, Flags = flags, NextStep = next, Events = events, Incidents = incidents,
             Results = results, Wind = wind,
         };
     }

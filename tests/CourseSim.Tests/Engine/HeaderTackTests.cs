@@ -9,7 +9,7 @@ namespace CourseSim.Tests.Engine;
 /// In oscillating shifts tacking on the headers sails the lifted tack more of the time and must gain; in steady wind
 /// there are no headers, so the two sail the same race. (The analytic size of the gain comes with the tactics issue.)
 /// </summary>
-public class HeaderTackTests
+public class HeaderTackTests(Xunit.Abstractions.ITestOutputHelper output)
 {
     static double Beat(string tactic, double amplitudeDeg, string extra = "")
     {
@@ -93,6 +93,7 @@ public class HeaderTackTests
             simulated += Run("vmg-layline", AmplitudeDeg, "", seed).ElapsedS
                        - Run("header-tack", AmplitudeDeg, $"header_deg = {HeaderDeg}\nmean_s = 1200", seed).ElapsedS;
         simulated /= seeds.Length;
+        output.WriteLine($"simulated gain {simulated:F1} s, predicted {predicted:F1} s (layline {tLayline:F0} s, headers {tHeader:F0} s, tack loss {tackLoss:F2} s, P_e {pe:F0} s, phi {Unit.RadToDeg(phi):F1} deg, beta {Unit.RadToDeg(beta):F1} deg, V {v:F2} m/s)");
         Assert.True(Math.Abs(simulated - predicted) < 0.25 * predicted,
             $"simulated gain {simulated:F1} s against predicted {predicted:F1} s (layline {tLayline:F0} s, headers {tHeader:F0} s, tack loss {tackLoss:F2} s, P_e {pe:F0} s, phi {Unit.RadToDeg(phi):F1} deg)");
     }
