@@ -15,6 +15,7 @@ public static class Program
         root.Subcommands.Add(WindCommand.Build(stdout, stderr));
         root.Subcommands.Add(RaceCommand.Build(stdout, stderr));
         root.Subcommands.Add(BatchCommand.Build(stdout, stderr));
+        root.Subcommands.Add(ViewCommand.Build(stdout, stderr));
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {

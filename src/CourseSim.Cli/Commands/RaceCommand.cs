@@ -22,8 +22,14 @@ public static class RaceCommand
         var outDir = new Option<string?>("--out") { Description = "folder for results.csv, summary.json, replay.msgpack and tracks/ (default out/race-NAME)" };
         var format = new Option<string>("--format") { Description = "table (results table) or json (summary.json to standard output)", DefaultValueFactory = _ => "table" };
         format.AcceptOnlyFromAmong("table", "json");
-        var cmd = new Command("race", "Race a scenario's fleet round its course in its wind, step by step from the board physics.") { file, seed, set, outDir, format };
-        cmd.SetAction(pr => Run(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(format)!, stdout, stderr));
+        var view = new Option<bool>("--view") { Description = "watch the race live in the browser viewer as it runs (served on 127.0.0.1; Ctrl+C to stop)" };
+        var port = new Option<int>("--port") { Description = "with --view: port to serve on (default: a free port)", DefaultValueFactory = _ => 0 };
+        var host = new Option<string>("--host") { Description = "with --view: address to listen on (default 127.0.0.1)", DefaultValueFactory = _ => "127.0.0.1" };
+        var pace = new Option<double>("--pace") { Description = "with --view: race seconds per real second (default 4; 0 = as fast as it runs)", DefaultValueFactory = _ => 4 };
+        var cmd = new Command("race", "Race a scenario's fleet round its course in its wind, step by step from the board physics.") { file, seed, set, outDir, format, view, port, host, pace };
+        cmd.SetAction(pr => pr.GetValue(view)
+            ? RunLive(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(host)!, pr.GetValue(port), pr.GetValue(pace), stdout, stderr)
+            : Run(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(format)!, stdout, stderr));
         return cmd;
     }
 
@@ -55,6 +61,27 @@ public static class RaceCommand
         console.MarkupLine("[grey]" + Markup.Escape($"Wrote {string.Join(", ", written)} in {dir}") + "[/]");
         console.MarkupLine("[yellow]" + Markup.Escape(Caution.Text) + "[/]");
         return ExitCodes.Ok;
+    }
+
+    /// <summary>The race, live in the viewer: paced to real time, streamed to the page, results written at the end.</summary>
+    static int RunLive(string path, ulong? seed, string[] sets, string? outDir, string host, int port, double pace, TextWriter stdout, TextWriter stderr)
+    {
+        if (pace < 0 || !double.IsFinite(pace)) throw new UsageException($"--pace {pace}: give race seconds per real second (0 or more)");
+        var setup = ScenarioFile.LoadRace(path, sets, seed);
+        string name = setup.Name.Length > 0 ? setup.Name : Path.GetFileNameWithoutExtension(path);
+        string dir = outDir ?? Path.Combine("out", $"race-{PolarCommand.Slug(name)}");
+        var race = new Race(setup);
+        var feed = new Viewer.LiveFeed(race);
+        return ViewCommand.Serve(host, port, null, feed, stdout, stderr, cancel =>
+        {
+            feed.Run(pace, cancel);
+            if (feed.Result is { } result)
+            {
+                var written = Write(dir, race, result);
+                stdout.WriteLine($"Race over: {result.Boards.Count(b => b.Finished)} of {result.Boards.Count} finished. Wrote {string.Join(", ", written)} in {dir}. The page stays up until Ctrl+C.");
+            }
+            else if (feed.Failure is { } e) stderr.WriteLine($"error: the race failed: {e.Message}");
+        });
     }
 
     static RaceResult RunWithProgress(Race race, TextWriter stdout, TextWriter stderr, bool quiet)

@@ -117,7 +117,8 @@ public static class ReplayFile
         return env.WrittenSpan.ToArray();
     }
 
-    static string KindName(RaceEventKind k) => k switch
+    /// <summary>The replay's name of an event kind (docs/replay.md).</summary>
+    public static string KindName(RaceEventKind k) => k switch
     {
         RaceEventKind.Started => "start", RaceEventKind.Ocs => "ocs", RaceEventKind.Cleared => "cleared", RaceEventKind.Rounded => "rounded",
         RaceEventKind.WrongSide => "wrong_side", RaceEventKind.Tack => "tack", RaceEventKind.Gybe => "gybe", RaceEventKind.Fall => "fall",
@@ -126,7 +127,8 @@ public static class ReplayFile
         _ => throw new ArgumentOutOfRangeException(nameof(k), k, "an event kind with no replay name"),
     };
 
-    static float Pick(in BoardSample s, int c) => c switch
+    /// <summary>The value of column c (<see cref="ColumnNames"/>) in a recorded sample.</summary>
+    public static float Pick(in BoardSample s, int c) => c switch
     {
         0 => s.X, 1 => s.Y, 2 => s.HeadingDeg, 3 => s.SpeedMs, 4 => s.LeewayDeg, 5 => s.AttackDeg, 6 => s.HeelUse,
         7 => s.TwaDeg, 8 => s.AwaDeg, 9 => s.TwsMs, 10 => s.TwdDeg, 11 => s.Sheet, _ => s.ReserveShare,
