@@ -149,7 +149,18 @@ public sealed partial class Race
                 }
         }
         _near.Sort();
+        // Each board's neighbours (compressed rows), so a rider's lookout walks only its own pairs.
+        if (_adjStart.Length != n + 1) _adjStart = new int[n + 1];
+        Array.Clear(_adjStart);
+        foreach (var (a, c) in _near) { _adjStart[a + 1]++; _adjStart[c + 1]++; }
+        for (int b = 0; b < n; b++) _adjStart[b + 1] += _adjStart[b];
+        if (_adj.Length < 2 * _near.Count) _adj = new int[Math.Max(16, 4 * _near.Count)];
+        if (_adjFill.Length != n) _adjFill = new int[n];
+        Array.Copy(_adjStart, _adjFill, n);
+        foreach (var (a, c) in _near) { _adj[_adjFill[a]++] = c; _adj[_adjFill[c]++] = a; }
     }
+
+    int[] _adjStart = [], _adj = [], _adjFill = [];
 
     static long CellKey(long cx, long cy) => (cx + (1L << 30)) * (1L << 31) + (cy + (1L << 30));
 
@@ -259,12 +270,19 @@ public sealed partial class Race
         double la = _rig[a].Physics.Equipment.Board.LengthM, lb = _rig[b].Physics.Equipment.Board.LengthM;
         double ha = Unit.RadToDeg(h), hb = Unit.RadToDeg(_sh[b]);
         double sa = Math.Sin(h), ca = Math.Cos(h), sb = Math.Sin(_st[b]), cb = Math.Cos(_st[b]);
+        // The turn onto h takes time (a slow board turns at the rate the rig can steer it, a fast one carves quicker;
+        // model value 20 + 8 deg/s per m/s, at most 70 deg/s): until it is made, a moves along the bisector.
+        double turn = Unit.WrapRadPi(h - _st[a]);
+        double turnS = Math.Abs(Unit.RadToDeg(turn)) / Math.Clamp(20 + 8 * _sv[a], 20, Tuning.MaxYawDegPerS);
+        double mid = _st[a] + 0.5 * turn, sm = Math.Sin(mid), cm = Math.Cos(mid), vNow = Math.Max(_sv[a], 0.5);
         double gap = double.PositiveInfinity;
         for (int i = 0; i <= 12; i++)
         {
             double tau = 0.5 * i;
             double db = Math.Max(0, _sv[b] * tau + 0.5 * _sa[b] * tau * tau); // b's run along its track, with its acceleration
-            var ra = new RuleBoard(_sx[a] + v * tau * sa, _sy[a] + v * tau * ca, ha, la);
+            double inTurn = Math.Min(tau, turnS), after = tau - inTurn;
+            double ax = _sx[a] + vNow * inTurn * sm + v * after * sa, ay = _sy[a] + vNow * inTurn * cm + v * after * ca;
+            var ra = new RuleBoard(ax, ay, ha, la);
             var rb = new RuleBoard(_sx[b] + db * sb, _sy[b] + db * cb, hb, lb);
             gap = Math.Min(gap, RightOfWay.HullDistance(ra, rb));
         }
@@ -282,10 +300,9 @@ public sealed partial class Race
     bool Threats(int k, double h, double v, double margin, bool turning, ref int firstOther, ref string firstRule)
     {
         _threats.Clear();
-        foreach (var (a, b) in _near)
+        for (int q = _adjStart[k]; q < _adjStart[k + 1]; q++)
         {
-            if (a != k && b != k) continue;
-            int j = a == k ? b : a;
+            int j = _adj[q];
             var (keep, rule) = Judge(k, h, j);
             var (t, d) = Cpa(k, h, v, j);
             // Faster closing, wider berth (the same rule of thumb as the passing gap).

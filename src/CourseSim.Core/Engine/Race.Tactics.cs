@@ -305,8 +305,8 @@ public sealed partial class Race
     /// <summary>
     /// Whatever the tactic, a rider does not sail past a mark on the wrong side: when the mark is ahead within
     /// <see cref="MarkSideLookM"/> and the course would leave it on the wrong hand (or closer than a board length), a
-    /// beating rider tacks and a running rider gybes onto the best VMG angle of the other tack (on a reach the aim point
-    /// already steers round it).
+    /// beating rider tacks onto the best VMG angle of the other tack (on a reach or a run the aim point already steers
+    /// round it).
     /// </summary>
     double MarkSideGuard(int b, int step, Vec2 p, double heading, double tws, double fromDeg, int tack)
     {
@@ -324,9 +324,8 @@ public sealed partial class Race
         double twa = Math.Abs(SignedAngle(fromDeg, heading));
         int side = Math.Sign(SignedAngle(fromDeg, heading)); if (side == 0) side = tack;
         var rig = _rigs[b];
-        if (twa < Unit.DegToRad(75)) return Unit.WrapRadPi(Unit.DegToRad(fromDeg) + side * rig.BestTwa(tws, true));
-        if (twa > Unit.DegToRad(120)) return Unit.WrapRadPi(Unit.DegToRad(fromDeg) + side * rig.BestTwa(tws, false));
-        return heading;
+        // Beating only: running, the rider already steers straight at the aim point within CloseRunM of it.
+        return twa < Unit.DegToRad(75) ? Unit.WrapRadPi(Unit.DegToRad(fromDeg) + side * rig.BestTwa(tws, true)) : heading;
     }
 
     /// <summary>
