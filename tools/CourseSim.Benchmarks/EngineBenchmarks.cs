@@ -112,7 +112,7 @@ public static class Report
         Console.WriteLine($"machine: {System.Environment.ProcessorCount} cores, {System.Runtime.InteropServices.RuntimeInformation.OSDescription}, .NET {System.Environment.Version}");
         Console.WriteLine("race step, one core, shadows on (fleet past the start, beating up a 40 km leg; line 4 m per board):");
         Console.WriteLine("  boards   ns/board-step best / median of 5   M board-steps/s best / median   system by system (ns/board-step, timed separately):");
-        Console.WriteLine("                                                                            sense  decide  trim+forces  integrate  manoeuvres  progress");
+        Console.WriteLine("                                                                            sense  decide  trim+forces  integrate  manoeuvres  progress  rules");
         foreach (int n in new[] { 10, 40, 200, 500, 2000 })
         {
             var race = Fleets.Make(n);
@@ -136,7 +136,7 @@ public static class Report
             race.Timings = new SystemTimings();
             for (int i = 0; i < steps / 2; i++) race.Step();
             var t = race.Timings;
-            Console.WriteLine($"  {n,6}   {runs[0],10:F0} / {runs[2],4:F0}               {1e3 / runs[0],10:F2} / {1e3 / runs[2],4:F2}              {t.NsPerBoardStep(0, n),5:F0}  {t.NsPerBoardStep(1, n),6:F0}  {t.NsPerBoardStep(2, n),11:F0}  {t.NsPerBoardStep(3, n),9:F0}  {t.NsPerBoardStep(4, n),10:F0}  {t.NsPerBoardStep(5, n),8:F0}");
+            Console.WriteLine($"  {n,6}   {runs[0],10:F0} / {runs[2],4:F0}               {1e3 / runs[0],10:F2} / {1e3 / runs[2],4:F2}              {t.NsPerBoardStep(0, n),5:F0}  {t.NsPerBoardStep(1, n),6:F0}  {t.NsPerBoardStep(2, n),11:F0}  {t.NsPerBoardStep(3, n),9:F0}  {t.NsPerBoardStep(4, n),10:F0}  {t.NsPerBoardStep(5, n),8:F0}  {t.NsPerBoardStep(6, n),5:F0}");
         }
         // Memory: heap growth per board (world, components, cold arrays, shadow grid and the recorder's first block).
         GC.Collect(); GC.WaitForPendingFinalizers(); GC.Collect();
