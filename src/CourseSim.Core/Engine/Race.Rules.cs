@@ -303,11 +303,16 @@ public sealed partial class Race
         for (int q = _adjStart[k]; q < _adjStart[k + 1]; q++)
         {
             int j = _adj[q];
-            var (keep, rule) = Judge(k, h, j);
             var (t, d) = Cpa(k, h, v, j);
             // Faster closing, wider berth (the same rule of thumb as the passing gap).
             double m = margin + ConflictPerMs * ClosingSpeed(k, h, v, j);
-            if (d >= m || t >= LookaheadS) { if (keep == k && !turning) _foreseen.Remove(PairKey(k, j)); continue; }
+            if (d >= m || t >= LookaheadS)
+            {
+                // No conflict: forget one this rider had foreseen as theirs (the verdict is only needed then).
+                if (!turning && _foreseen.ContainsKey(PairKey(k, j)) && Judge(k, h, j).KeepClear == k) _foreseen.Remove(PairKey(k, j));
+                continue;
+            }
+            var (keep, rule) = Judge(k, h, j);
             bool mine = keep == k || turning && keep >= 0;
             bool lastMoment = keep == j && t < LastMomentS && !(_avoidOn[j] && Time >= _avoidAt[j]);
             if (keep == k && (!_foreseen.TryGetValue(PairKey(k, j), out var seen) || seen.Rule != rule)) _foreseen[PairKey(k, j)] = (Time, k, rule, _sh[j]);
