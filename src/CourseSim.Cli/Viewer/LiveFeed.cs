@@ -85,7 +85,7 @@ public sealed class LiveFeed
         {
             if (c > 0) sb.Append(',');
             ViewerData.Str(sb, ReplayFile.ColumnNames[c]); sb.Append(":[");
-            int decimals = ReplayFile.ColumnNames[c] is "x_m" or "y_m" ? 2 : ReplayFile.ColumnNames[c] is "sheet" or "heel_use" or "reserve" ? 3 : 1;
+            int decimals = ViewerData.Decimals(ReplayFile.ColumnNames[c]);
             bool first = true;
             for (int k = k0; k < k1; k++)
             {

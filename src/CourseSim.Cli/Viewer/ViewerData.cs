@@ -34,7 +34,8 @@ public static class ViewerData
         return sb.ToString();
     }
 
-    static int Decimals(string column) => column switch { "x_m" or "y_m" => 2, "sheet" or "heel_use" or "reserve" => 3, _ => 1 };
+    /// <summary>Decimals kept per column: centimetres for positions, thousandths for shares, tenths for the rest.</summary>
+    internal static int Decimals(string column) => column switch { "x_m" or "y_m" => 2, "sheet" or "heel_use" or "reserve" => 3, _ => 1 };
 
     internal static void Head(StringBuilder sb, string scenario, string venue, ulong seed, double stepHz, double intervalS, double startS,
         IReadOnlyList<ReplayBoard> boards, string courseKind, double axisDeg, double[] startLine, IReadOnlyList<ReplayStep> steps, ReplayWind? wind)
