@@ -66,3 +66,72 @@ public class UserTacticTests
         }
     }
 }
+
+/// <summary>
+/// The pressure and cover tactics do what they say: in a wind with a steady pressure difference across the course the
+/// pressure-seeker spends its beat on the windier side; ahead of its rival on a beat, the cover board sails the
+/// rival's tack.
+/// </summary>
+public class TacticBehaviourTests(Xunit.Abstractions.ITestOutputHelper output)
+{
+    static string Fleet(string first, string prm) =>
+        // Wind from the north, 6 kn more per km to the west (docs/wind.md: pressure_kn_per_km is the gain to the right
+        // of the wind axis looking upwind; negative, to the left); a 1.5 km beat; six boards spread along the line.
+        "[wind]\nspeed_kn = 12\ndirection_deg = 0\nshift_amplitude_deg = 0\ngust_intensity = 0\npressure_kn_per_km = -6\nshadows = false\n" +
+        "[race]\nfalls = false\ntime_limit_s = 1800\ncountdown_s = 40\n[course]\nkind = \"waypoints\"\norder = \"top\"\nstart_line_m = 300\n" +
+        "[course.marks.top]\nx_m = 0\ny_m = 1500\n" +
+        string.Concat(Enumerable.Range(0, 6).Select(i =>
+            $"[boards.b{i}]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\nline_position = {(i == 0 ? 0.5 : (i - 0.5) / 5.0).ToString(System.Globalization.CultureInfo.InvariantCulture)}\n" +
+            (i == 0 ? $"tactic = \"{first}\"\n{prm}" : "")));
+
+    /// <summary>Mean x (m, east) of board 0 while it sails the beat.</summary>
+    static double MeanEast(string tactic, string prm)
+    {
+        var race = new Race(EngineTestKit.Parse(Fleet(tactic, prm)));
+        double sum = 0; int n = 0;
+        while (!race.IsOver)
+        {
+            race.Step();
+            var st = race.World.Get<RaceStatus>(race.EntityOf(0));
+            if (st.State != RaceState.Racing || st.NextStep != 0) { if (st.State == RaceState.Finished) break; continue; }
+            sum += race.World.Get<Pose>(race.EntityOf(0)).X; n++;
+        }
+        return sum / Math.Max(1, n);
+    }
+
+    [Fact]
+    public void ThePressureSeekerSailsTheWindierSideOfTheBeat()
+    {
+        double plain = MeanEast("vmg-layline", ""), seeker = MeanEast("pressure", "[boards.b0.params]\ngain_kn = 0.3\n");
+        output.WriteLine($"mean x on the beat: vmg-layline {plain:F0} m, pressure {seeker:F0} m");
+        Assert.True(seeker < plain - 30, $"pressure {seeker:F0} m east on average against {plain:F0} m for vmg-layline (the wind is stronger to the west)");
+    }
+
+    /// <summary>Board a is 60 m ahead (upwind) of its rival b on a long beat, a on starboard, b on port; who tacks in 20 s?</summary>
+    static (int ATacks, int BTacks) AheadOfRival(string tactic)
+    {
+        var setup = EngineTestKit.Parse(EngineTestKit.SteadyWind(14) + "[race]\nfalls = false\ncountdown_s = 20\ntime_limit_s = 600\n" +
+            "[course]\nkind = \"waypoints\"\norder = \"top\"\n[course.marks.top]\nx_m = 0\ny_m = 4000\n" +
+            $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\ntactic = \"{tactic}\"\n" + (tactic == "cover" ? "rival = \"b\"\n" : "") +
+            $"[boards.b]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n");
+        var race = new Race(setup);
+        double v = race.RigOf(0).Speed(CourseSim.Units.Unit.KnotsToMs(14), CourseSim.Units.Unit.DegToRad(45));
+        race.Place(0, 0, 1000, 315, v);   // starboard, upwind of b
+        race.Place(1, 40, 940, 45, v);    // port, 60 m below
+        while (race.Time < -20 + 20) race.Step();
+        var r = race.Result();
+        return (r.Boards[0].Tacks, r.Boards[1].Tacks);
+    }
+
+    [Fact]
+    public void TheCoverBoardAheadSailsTheRivalsTack()
+    {
+        var cover = AheadOfRival("cover");
+        var plain = AheadOfRival("vmg-layline");
+        output.WriteLine($"tacks in 20 s: cover {cover.ATacks} (rival {cover.BTacks}), vmg-layline {plain.ATacks}");
+        Assert.Equal(1, cover.ATacks);      // onto port, as the rival
+        Assert.Equal(0, cover.BTacks);
+        Assert.Equal(0, plain.ATacks);      // far from its laylines, it would not have tacked
+    }
+}
+
