@@ -332,7 +332,21 @@
     return best;
   }
 
-  canvas.addEventListener("click", (e) => { if (!view.data) return; const r = canvas.getBoundingClientRect(); const b = pick(e.clientX - r.left, e.clientY - r.top); if (b >= 0) view.selected = b; });
+  // Drag to pan (a press that moves more than a few pixels is a drag, not a click); double-click to fit the course.
+  let drag = null;
+  canvas.addEventListener("mousedown", (e) => { drag = { x: e.clientX, y: e.clientY, ox: view.ox, oy: view.oy, moved: false }; });
+  window.addEventListener("mouseup", () => { setTimeout(() => { drag = null; }, 0); });
+  canvas.addEventListener("mousemove", (e) => {
+    if (!drag || !(e.buttons & 1)) return;
+    const dx = e.clientX - drag.x, dy = e.clientY - drag.y;
+    if (Math.abs(dx) + Math.abs(dy) > 4) drag.moved = true;
+    if (drag.moved) { view.ox = drag.ox + dx; view.oy = drag.oy + dy; }
+  });
+  canvas.addEventListener("dblclick", () => resize());
+  canvas.addEventListener("click", (e) => {
+    if (!view.data || (drag && drag.moved)) return;
+    const r = canvas.getBoundingClientRect(); const b = pick(e.clientX - r.left, e.clientY - r.top); if (b >= 0) view.selected = b;
+  });
   canvas.addEventListener("mousemove", (e) => {
     if (!view.data) return;
     const r = canvas.getBoundingClientRect(), b = pick(e.clientX - r.left, e.clientY - r.top), tip = $("tip");
