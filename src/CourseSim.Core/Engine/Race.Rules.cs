@@ -41,12 +41,12 @@ public sealed partial class Race
     string[] _avoidRule = [];
     double[] _avoidAt = [], _avoidH = [], _avoidP = [], _desH = [], _nearestM = [];
     int[] _penaltyOwed = [], _penaltyStage = [], _penaltySign = [], _penaltiesTaken = [], _giveWays = [];
-    double[] _penaltyStageAt = [], _turnStartS = [], _turnStartNearestM = [];
+    double[] _turnStartS = [], _turnStartNearestM = [], _lengthM = [];
     // Lookout snapshot of the fleet.
     double[] _sx = [], _sy = [], _sh = [], _st = [], _sv = [], _sa = [], _sFrom = [];
     bool[] _sLive = [], _sTacking = [], _sCapsized = [], _sBusy = [];
     int[] _sNext = [];
-    long[] _cellKey = []; int[] _cellOrder = [];
+    long[] _cellKey = [], _cellX = [], _cellY = []; int[] _cellOrder = [];
     readonly List<(int A, int B)> _near = new();
     readonly HashSet<long> _touching = new();
     /// <summary>Pairs whose conflict a rider has seen: when first seen, who keeps clear, the rule, the right-of-way board's heading then.</summary>
@@ -61,11 +61,14 @@ public sealed partial class Race
         _avoidOn = new bool[n]; _avoidOther = new int[n]; _avoidRule = new string[n]; _avoidAt = new double[n]; _avoidH = new double[n]; _avoidP = new double[n]; _desH = new double[n];
         _nearestM = new double[n]; Array.Fill(_nearestM, double.PositiveInfinity);
         _penaltyOwed = new int[n]; _penaltyStage = new int[n]; _penaltySign = new int[n]; _penaltiesTaken = new int[n]; _giveWays = new int[n];
-        _penaltyStageAt = new double[n]; _turnStartS = new double[n]; Array.Fill(_turnStartS, double.NegativeInfinity);
+        _turnStartS = new double[n]; Array.Fill(_turnStartS, double.NegativeInfinity);
         _turnStartNearestM = new double[n];
+        // Hull lengths, read at every lookout and contact check.
+        _lengthM = new double[n];
+        for (int b = 0; b < n; b++) _lengthM[b] = _rig[b].Physics.Equipment.Board.LengthM;
         _sx = new double[n]; _sy = new double[n]; _sh = new double[n]; _st = new double[n]; _sa = new double[n]; _sv = new double[n]; _sFrom = new double[n];
         _sLive = new bool[n]; _sTacking = new bool[n]; _sCapsized = new bool[n]; _sBusy = new bool[n]; _sNext = new int[n];
-        _cellKey = new long[n]; _cellOrder = new int[n];
+        _cellKey = new long[n]; _cellX = new long[n]; _cellY = new long[n]; _cellOrder = new int[n];
         _lookoutEvery = Math.Max(1, (int)Math.Round(Settings.StepHz / Math.Min(Setup.Rules.LookoutHz, Settings.StepHz)));
     }
 
@@ -123,14 +126,15 @@ public sealed partial class Race
         {
             _nearestM[b] = double.PositiveInfinity;
             if (!_sLive[b]) continue;
-            _cellKey[live] = CellKey((long)Math.Floor(_sx[b] / LookoutRangeM), (long)Math.Floor(_sy[b] / LookoutRangeM));
+            _cellX[b] = (long)Math.Floor(_sx[b] / LookoutRangeM); _cellY[b] = (long)Math.Floor(_sy[b] / LookoutRangeM);
+            _cellKey[live] = CellKey(_cellX[b], _cellY[b]);
             _cellOrder[live] = b; live++;
         }
         Array.Sort(_cellKey, _cellOrder, 0, live);
         for (int i = 0; i < live; i++)
         {
             int a = _cellOrder[i];
-            long cx = (long)Math.Floor(_sx[a] / LookoutRangeM), cy = (long)Math.Floor(_sy[a] / LookoutRangeM);
+            long cx = _cellX[a], cy = _cellY[a];
             for (long dx = -1; dx <= 1; dx++)
                 for (long dy = -1; dy <= 1; dy++)
                 {
@@ -172,7 +176,7 @@ public sealed partial class Race
     }
 
     RuleBoard RuleBoardOf(int b, double headingRad, bool tacking) =>
-        new(_sx[b], _sy[b], Unit.RadToDeg(headingRad), _rig[b].Physics.Equipment.Board.LengthM, tacking);
+        new(_sx[b], _sy[b], Unit.RadToDeg(headingRad), _lengthM[b], tacking);
 
     /// <summary>
     /// Who keeps clear between boards a and b, a sailing <paramref name="headingA"/> (a heading on the other tack counts
@@ -247,7 +251,7 @@ public sealed partial class Race
     /// <summary>The track (rad) from board a at speed v that meets the point astern of board b where b will then be.</summary>
     double DuckTrack(int a, int b, double v)
     {
-        double lb = _rig[b].Physics.Equipment.Board.LengthM;
+        double lb = _lengthM[b];
         double back = 0.5 * lb + PassClearM + 2;
         double px = _sx[b] - back * Math.Sin(_sh[b]), py = _sy[b] - back * Math.Cos(_sh[b]);
         double vx = _sv[b] * Math.Sin(_st[b]), vy = _sv[b] * Math.Cos(_st[b]);
@@ -267,7 +271,7 @@ public sealed partial class Race
     /// </summary>
     double PredictedHullGap(int a, double h, double v, int b)
     {
-        double la = _rig[a].Physics.Equipment.Board.LengthM, lb = _rig[b].Physics.Equipment.Board.LengthM;
+        double la = _lengthM[a], lb = _lengthM[b];
         double ha = Unit.RadToDeg(h), hb = Unit.RadToDeg(_sh[b]);
         double sa = Math.Sin(h), ca = Math.Cos(h), sb = Math.Sin(_st[b]), cb = Math.Cos(_st[b]);
         // The turn onto h takes time (a slow board turns at the rate the rig can steer it, a fast one carves quicker;
@@ -410,8 +414,8 @@ public sealed partial class Race
             double cd = Math.Sqrt((pa.X - pb.X) * (pa.X - pb.X) + (pa.Y - pb.Y) * (pa.Y - pb.Y));
             long key = PairKey(a, b);
             if (cd > 8) { _touching.Remove(key); continue; }
-            var ra = new RuleBoard(pa.X, pa.Y, Unit.RadToDeg(pa.Heading), _rig[a].Physics.Equipment.Board.LengthM);
-            var rb = new RuleBoard(pb.X, pb.Y, Unit.RadToDeg(pb.Heading), _rig[b].Physics.Equipment.Board.LengthM);
+            var ra = new RuleBoard(pa.X, pa.Y, Unit.RadToDeg(pa.Heading), _lengthM[a]);
+            var rb = new RuleBoard(pb.X, pb.Y, Unit.RadToDeg(pb.Heading), _lengthM[b]);
             double hd = RightOfWay.HullDistance(ra, rb);
             if (hd >= clearance) { if (hd > clearance + 0.5) _touching.Remove(key); continue; }
             if (!_touching.Add(key)) continue;
@@ -494,7 +498,7 @@ public sealed partial class Race
                 }
                 break;
         }
-        void Next(int stage) { _penaltyStage[b] = stage; _penaltyStageAt[b] = Time; }
+        void Next(int stage) => _penaltyStage[b] = stage;
     }
 
     /// <summary>Starts a penalty turn for a board that owes one, is racing, free, and well clear of the others.</summary>
@@ -503,6 +507,6 @@ public sealed partial class Race
         if (_penaltyOwed[b] <= 0 || _penaltyStage[b] != 0 || man.Kind != Manoeuvre.None) return;
         if (st.State is not (RaceState.Racing or RaceState.Returning) || _nearestM[b] < WellClearM) return;
         _penaltySign[b] = SignedAngle(sw.TrueFromDeg, pose.Heading) >= 0 ? 1 : -1;
-        _penaltyStage[b] = 1; _penaltyStageAt[b] = Time;
+        _penaltyStage[b] = 1;
     }
 }
