@@ -29,7 +29,7 @@ public sealed class LullTackTactic(TacticArgs args) : ITactic
         double k = double.IsNaN(_last) ? 1 : Math.Min(1, (o.TimeS - _last) / 60);
         _mean = double.IsNaN(_mean) ? o.WindSpeedMs : _mean + k * (o.WindSpeedMs - _mean);
         _last = o.TimeS;
-        double toMark = nav.ToTarget(o.AimPoint, o.TimeS - o.LastTurnS >= 12);
+        double toMark = BuiltInTactics.ToMark(o, nav); // layline sailing to the aim point, as the built-in tactics do
         bool lull = o.Leg == LegKind.Beat && o.WindSpeedMs < _mean - _lull && o.TimeS - o.LastTurnS >= _minTack;
         return new Decision(lull ? nav.AtTrueWindAngle(-o.Tack * nav.BestAngle(upwind: true)) : toMark);
     }

@@ -81,6 +81,11 @@ public static class BuiltInTactics
     /// <summary>Signed true wind angle (deg, positive = starboard) of a heading in a wind from <paramref name="fromDeg"/>.</summary>
     public static double Twa(double fromDeg, double headingDeg) => Unit.WrapDeg180(fromDeg - headingDeg);
 
+    /// <summary>Layline sailing to the aim point, turning no sooner than the engine's least time between turns: the
+    /// course the tactics below fall back on.</summary>
+    public static double ToMark(Observation o, INavigator nav) =>
+        nav.ToTarget(o.AimPoint, o.TimeS - o.LastTurnS >= CourseSim.Engine.Race.MinTimeBetweenTurnsS);
+
     /// <summary>The heading on the other tack or gybe at the best VMG angle of this leg.</summary>
     public static double Turn(Observation o, INavigator nav) =>
         nav.AtTrueWindAngle(-o.Tack * nav.BestAngle(o.Leg != LegKind.Run));
@@ -102,7 +107,7 @@ public static class BuiltInTactics
             double k = double.IsNaN(_lastT) ? 1 : Math.Min(1, (o.TimeS - _lastT) / _meanS);
             _mean = double.IsNaN(_mean) ? o.WindFromDeg : Unit.WrapDeg360(_mean + k * Unit.WrapDeg180(o.WindFromDeg - _mean));
             _lastT = o.TimeS;
-            double heading = nav.ToTarget(o.AimPoint, o.TimeS - o.LastTurnS >= 12);
+            double heading = ToMark(o, nav);
             if (o.TimeS - o.LastTurnS < _minTack || o.Leg == LegKind.Reach) return new(heading);
             double shift = Unit.WrapDeg180(o.WindFromDeg - _mean); // positive: veered
             // Starboard tack is headed when the wind backs, port when it veers; downwind a lift on the present gybe is
@@ -114,13 +119,8 @@ public static class BuiltInTactics
         }
     }
 
-    /// <summary>Cross-wind side of a point relative to the rider: +1 to the right looking upwind, -1 to the left.</summary>
-    static double CrossWind(Observation o, Vec2 p)
-    {
-        var up = Vec2.FromBearing(o.WindFromDeg);
-        var right = new Vec2(up.Y, -up.X);
-        return Vec2.Dot(p - o.Position, right);
-    }
+    /// <summary>Unit vector across the wind, to the right looking upwind.</summary>
+    static Vec2 RightOfWind(Observation o) { var up = Vec2.FromBearing(o.WindFromDeg); return new Vec2(up.Y, -up.X); }
 
     sealed class PressureTactic(TacticArgs a) : ITactic
     {
@@ -129,15 +129,16 @@ public static class BuiltInTactics
 
         public Decision Decide(Observation o, INavigator nav)
         {
-            double heading = nav.ToTarget(o.AimPoint, o.TimeS - o.LastTurnS >= 12);
+            double heading = ToMark(o, nav);
             if (o.Leg == LegKind.Reach || o.TimeS - o.LastTurnS < _minTack) return new(heading);
             // Which way the present tack takes the rider across the wind.
-            double going = CrossWind(o, o.Position + Vec2.FromBearing(o.HeadingDeg));
+            var right = RightOfWind(o);
+            double going = Vec2.Dot(Vec2.FromBearing(o.HeadingDeg), right);
             double here = o.WindSpeedMs, sumAhead = here, nAhead = 1, sumOther = 0, nOther = 0;
             foreach (var s in o.Nearby)
             {
                 if (s.DistanceM > _sight) continue;
-                double side = CrossWind(o, s.Position);
+                double side = Vec2.Dot(s.Position - o.Position, right); // m to the right of the rider, looking upwind
                 if (Math.Abs(side) < 20) continue; // abeam in line with the rider: tells nothing about a side
                 if (Math.Sign(side) == Math.Sign(going)) { sumAhead += s.WindSpeedMs; nAhead++; }
                 else { sumOther += s.WindSpeedMs; nOther++; }
@@ -181,7 +182,7 @@ public static class BuiltInTactics
 
         public Decision Decide(Observation o, INavigator nav)
         {
-            double heading = nav.ToTarget(o.AimPoint, o.TimeS - o.LastTurnS >= 12);
+            double heading = ToMark(o, nav);
             if (o.Leg == LegKind.Reach || o.TimeS - o.LastTurnS < _minTack) return new(heading);
             foreach (var s in o.Nearby)
             {
