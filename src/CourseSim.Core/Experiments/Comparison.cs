@@ -27,6 +27,9 @@ public static class Comparison
             variants.Add(new VariantSummary(v.Name, list.Count, list.Average(r => r.TimeOrLimitS), Statistics.Wilson(wins, list.Count),
                 list.Average(r => (double)(r.Place ?? int.MaxValue / 2))));
         }
+        // Finishers per race of each variant, counted once: a board that did not finish takes the place after the last.
+        var finishers = rows.Where(r => r.Place is not null).GroupBy(r => (r.Variant, r.Race)).ToDictionary(g => g.Key, g => g.Count());
+        double PlaceOf(RaceRow r) => r.Place ?? (finishers.GetValueOrDefault((r.Variant, r.Race)) + 1);
         var pairs = new List<PairSummary>();
         for (int i = 0; i < spec.Variants.Count; i++)
             for (int j = i + 1; j < spec.Variants.Count; j++)
@@ -40,8 +43,6 @@ public static class Comparison
                 var t = Statistics.PairedT(d);
                 var boot = Statistics.BootstrapMean(d, seed ^ (ulong)(i * 1000 + j));
                 var (_, sd) = Statistics.MeanSd(d);
-                // Places: a board that did not finish takes the place after the last finisher of its race.
-                double PlaceOf(RaceRow r) => r.Place ?? (rows.Count(x => x.Variant == r.Variant && x.Race == r.Race && x.Place is not null) + 1);
                 var dp = common.Select(k => PlaceOf(a[k]) - PlaceOf(b[k])).ToArray();
                 pairs.Add(new PairSummary(spec.Variants[i].Name, spec.Variants[j].Name, common.Count, t, boot, Statistics.WinProbability(ta, tb),
                     t.ExcludesZero, Statistics.PairsNeeded(t.Estimate, sd), Statistics.PairedT(dp), Statistics.BootstrapMean(dp, seed ^ (ulong)(i * 1000 + j) ^ 0x9A))); 
