@@ -36,8 +36,7 @@ public static class RaceCommand
     static int Run(string path, ulong? seed, string[] sets, string? outDir, string format, TextWriter stdout, TextWriter stderr)
     {
         var setup = ScenarioFile.LoadRace(path, sets, seed);
-        string name = setup.Name.Length > 0 ? setup.Name : Path.GetFileNameWithoutExtension(path);
-        string dir = outDir ?? Path.Combine("out", $"race-{PolarCommand.Slug(name)}");
+        var (name, dir) = NameAndFolder(setup, path, outDir);
         var clock = System.Diagnostics.Stopwatch.StartNew();
         var race = new Race(setup);
         double setupS = clock.Elapsed.TotalSeconds;
@@ -63,13 +62,19 @@ public static class RaceCommand
         return ExitCodes.Ok;
     }
 
+    /// <summary>The race's display name (the scenario's, else the file's) and its output folder (default out/race-NAME).</summary>
+    static (string Name, string Dir) NameAndFolder(RaceSetup setup, string path, string? outDir)
+    {
+        string name = setup.Name.Length > 0 ? setup.Name : Path.GetFileNameWithoutExtension(path);
+        return (name, outDir ?? Path.Combine("out", $"race-{PolarCommand.Slug(name)}"));
+    }
+
     /// <summary>The race, live in the viewer: paced to real time, streamed to the page, results written at the end.</summary>
     static int RunLive(string path, ulong? seed, string[] sets, string? outDir, string host, int port, double pace, TextWriter stdout, TextWriter stderr)
     {
         if (pace < 0 || !double.IsFinite(pace)) throw new UsageException($"--pace {pace}: give race seconds per real second (0 or more)");
         var setup = ScenarioFile.LoadRace(path, sets, seed);
-        string name = setup.Name.Length > 0 ? setup.Name : Path.GetFileNameWithoutExtension(path);
-        string dir = outDir ?? Path.Combine("out", $"race-{PolarCommand.Slug(name)}");
+        var (_, dir) = NameAndFolder(setup, path, outDir);
         var race = new Race(setup);
         var feed = new Viewer.LiveFeed(race);
         return ViewCommand.Serve(host, port, null, feed, stdout, stderr, cancel =>
