@@ -113,18 +113,15 @@ public sealed class ViewerServer : IAsyncDisposable
         {
             lock (_gate)
             {
-                try
+                // FileInfo reads the file's stamp without throwing (a missing file has none); reading it may throw.
+                var info = new FileInfo(path);
+                var stamp = (info.LastWriteTimeUtc, info.Exists ? info.Length : -1);
+                if (stamp != _stamp)
                 {
-                    var info = new FileInfo(path);
-                    var stamp = (info.LastWriteTimeUtc, info.Exists ? info.Length : -1);
-                    if (stamp != _stamp)
-                    {
-                        _stamp = stamp;
-                        try { _json = ViewerData.Json(ReplayFile.Read(File.ReadAllBytes(path), path)); _error = ""; }
-                        catch (Exception e) when (e is ReplayException or IOException) { _error = e.Message; _json = ""; }
-                    }
+                    _stamp = stamp;
+                    try { _json = ViewerData.Json(ReplayFile.Read(File.ReadAllBytes(path), path)); _error = ""; }
+                    catch (Exception e) when (e is ReplayException or IOException) { _error = e.Message; _json = ""; }
                 }
-                catch (IOException e) { return ("", e.Message); }
                 return _error.Length > 0 ? ("", _error) : (_json, null);
             }
         }
