@@ -48,6 +48,12 @@ public sealed partial class Race
     int[] _sNext = [];
     long[] _cellKey = [], _cellX = [], _cellY = []; int[] _cellOrder = [];
     readonly List<(int A, int B)> _near = new();
+    /// <summary>
+    /// The pairs close enough at the lookout to touch before the next one (8 m, the contact check's own range, plus
+    /// what two boards can close in a lookout interval at up to 50 m/s between them): the only ones checked each step.
+    /// </summary>
+    readonly List<(int A, int B)> _close = new();
+    double _contactWatchM = 8;
     readonly HashSet<long> _touching = new();
     /// <summary>Pairs whose conflict a rider has seen: when first seen, who keeps clear, the rule, the right-of-way board's heading then.</summary>
     readonly Dictionary<long, (double Since, int KeepClear, string Rule, double RowHeading)> _foreseen = new();
@@ -70,6 +76,7 @@ public sealed partial class Race
         _sLive = new bool[n]; _sTacking = new bool[n]; _sCapsized = new bool[n]; _sBusy = new bool[n]; _sNext = new int[n];
         _cellKey = new long[n]; _cellX = new long[n]; _cellY = new long[n]; _cellOrder = new int[n];
         _lookoutEvery = Math.Max(1, (int)Math.Round(Settings.StepHz / Math.Min(Setup.Rules.LookoutHz, Settings.StepHz)));
+        _contactWatchM = ContactCheckM + 50 * _lookoutEvery * Dt;
     }
 
     /// <summary>Penalty turns taken by a board (served in full).</summary>
@@ -120,7 +127,7 @@ public sealed partial class Race
     /// <summary>Neighbour pairs within the lookout range, from a uniform grid (cells of the range, sorted keys): O(n log n), deterministic.</summary>
     void BuildNear()
     {
-        _near.Clear();
+        _near.Clear(); _close.Clear();
         int n = BoardCount, live = 0;
         for (int b = 0; b < n; b++)
         {
@@ -147,12 +154,13 @@ public sealed partial class Race
                         double d = Math.Sqrt((_sx[a] - _sx[c]) * (_sx[a] - _sx[c]) + (_sy[a] - _sy[c]) * (_sy[a] - _sy[c]));
                         if (d > LookoutRangeM) continue;
                         _near.Add((a, c));
+                        if (d < _contactWatchM) _close.Add((a, c));
                         if (d < _nearestM[a]) _nearestM[a] = d;
                         if (d < _nearestM[c]) _nearestM[c] = d;
                     }
                 }
         }
-        _near.Sort();
+        _near.Sort(); _close.Sort();
         // Each board's neighbours (compressed rows), so a rider's lookout walks only its own pairs.
         if (_adjStart.Length != n + 1) _adjStart = new int[n + 1];
         Array.Clear(_adjStart);
@@ -401,19 +409,22 @@ public sealed partial class Race
             rule == "16" ? $"puts off a tack or gybe near {Setup.Boards[other].Name} (rule 16)" : $"keeps clear of {Setup.Boards[other].Name} (rule {rule})"));
     }
 
+    /// <summary>Centre distance beyond which two hulls cannot be in contact, m (two board lengths and the clearance, with room).</summary>
+    const double ContactCheckM = 8;
+
     /// <summary>Every step: the close pairs are checked for contact (hulls within race.contact_m), which is judged once per contact.</summary>
     void CheckContacts()
     {
-        if (_near.Count == 0) return;
+        if (_close.Count == 0) return;
         double clearance = Setup.Rules.ContactM;
-        foreach (var (a, b) in _near)
+        foreach (var (a, b) in _close)
         {
             var ea = _entities[a]; var eb = _entities[b];
             if (World.Has<Done>(ea) || World.Has<Done>(eb)) continue;
             ref var pa = ref World.Get<Pose>(ea); ref var pb = ref World.Get<Pose>(eb);
             double cd = Math.Sqrt((pa.X - pb.X) * (pa.X - pb.X) + (pa.Y - pb.Y) * (pa.Y - pb.Y));
             long key = PairKey(a, b);
-            if (cd > 8) { _touching.Remove(key); continue; }
+            if (cd > ContactCheckM) { _touching.Remove(key); continue; }
             var ra = new RuleBoard(pa.X, pa.Y, Unit.RadToDeg(pa.Heading), _lengthM[a]);
             var rb = new RuleBoard(pb.X, pb.Y, Unit.RadToDeg(pb.Heading), _lengthM[b]);
             double hd = RightOfWay.HullDistance(ra, rb);
