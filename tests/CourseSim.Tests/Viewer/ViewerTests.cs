@@ -31,7 +31,15 @@ public sealed class ViewerFixture : IDisposable
     public void Dispose() { try { Directory.Delete(Folder, true); } catch (IOException) { } }
 }
 
+/// <summary>
+/// The viewer tests run alone, after the parallel ones: the server they start lives in this process, and on a 2-core
+/// machine the thread pool busy with other tests' races could leave a page request waiting past the browser's timeout.
+/// </summary>
+[CollectionDefinition(Name, DisableParallelization = true)]
+public sealed class ViewerCollection { public const string Name = "viewer (alone)"; }
+
 /// <summary>The viewer's server: loopback only by default, its own files and the named replay only, clear errors.</summary>
+[Collection(ViewerCollection.Name)]
 public class ViewerServerTests(ViewerFixture fx) : IClassFixture<ViewerFixture>
 {
     static readonly HttpClient Http = new() { Timeout = TimeSpan.FromSeconds(20) };
@@ -171,6 +179,7 @@ public class ViewerServerTests(ViewerFixture fx) : IClassFixture<ViewerFixture>
 /// panel; a screenshot is kept as a test artefact (and, with COURSESIM_UPDATE_SCREENSHOT=1, as docs/img/viewer.png).
 /// The same checks run on the exported file opened from disk, and a broken replay shows its error on the page.
 /// </summary>
+[Collection(ViewerCollection.Name)]
 public class ViewerBrowserTests(ViewerFixture fx, Xunit.Abstractions.ITestOutputHelper output) : IClassFixture<ViewerFixture>
 {
     static readonly string E2e = Path.Combine(RepoRoot.Path, "tests", "e2e");
@@ -195,14 +204,20 @@ public class ViewerBrowserTests(ViewerFixture fx, Xunit.Abstractions.ITestOutput
         }
     }
 
-    static (int Code, string Output) Exec(string file, string args, string dir, int timeoutS, IDictionary<string, string>? env = null)
+    // Installing (under the lock, once) may block; the browser runs are awaited so no thread waits on them.
+    static (int Code, string Output) Exec(string file, string args, string dir, int timeoutS) =>
+        ExecAsync(file, args, dir, timeoutS).GetAwaiter().GetResult();
+
+    static async Task<(int Code, string Output)> ExecAsync(string file, string args, string dir, int timeoutS, IDictionary<string, string>? env = null)
     {
         var psi = new ProcessStartInfo(file, args) { WorkingDirectory = dir, RedirectStandardOutput = true, RedirectStandardError = true };
         if (env is not null) foreach (var (k, v) in env) psi.Environment[k] = v;
         using var p = Process.Start(psi)!;
         var so = p.StandardOutput.ReadToEndAsync(); var se = p.StandardError.ReadToEndAsync();
-        if (!p.WaitForExit(timeoutS * 1000)) { p.Kill(true); return (-1, $"timed out after {timeoutS} s"); }
-        return (p.ExitCode, so.Result + se.Result);
+        using var limit = new CancellationTokenSource(TimeSpan.FromSeconds(timeoutS));
+        try { await p.WaitForExitAsync(limit.Token); }
+        catch (OperationCanceledException) { p.Kill(true); return (-1, $"timed out after {timeoutS} s"); }
+        return (p.ExitCode, await so + await se);
     }
 
     string Artefact(string name)
@@ -218,7 +233,7 @@ public class ViewerBrowserTests(ViewerFixture fx, Xunit.Abstractions.ITestOutput
         EnsureTools();
         await using var server = await ViewerServer.StartAsync("127.0.0.1", 0, fx.ReplayPath, null);
         string shot = Artefact("viewer.png");
-        var (code, text) = Exec("node", $"viewer.mjs {server.Url} \"{shot}\"", E2e, 120);
+        var (code, text) = await ExecAsync("node", $"viewer.mjs {server.Url} \"{shot}\"", E2e, 120);
         output.WriteLine(text);
         Assert.True(code == 0, text);
         Assert.True(new FileInfo(shot).Length > 20_000, "a screenshot was taken");
@@ -227,12 +242,12 @@ public class ViewerBrowserTests(ViewerFixture fx, Xunit.Abstractions.ITestOutput
     }
 
     [Fact]
-    public void TheExportedFileWorksFromDiskWithNoServer()
+    public async Task TheExportedFileWorksFromDiskWithNoServer()
     {
         EnsureTools();
         string html = Path.Combine(fx.Folder, "export.html");
         Assert.Equal(0, CourseSim.Cli.Program.Run(["view", fx.ReplayPath, "--export", html], new StringWriter(), new StringWriter()));
-        var (code, text) = Exec("node", $"viewer.mjs \"{new Uri(html).AbsoluteUri}\" \"{Artefact("export.png")}\"", E2e, 120);
+        var (code, text) = await ExecAsync("node", $"viewer.mjs \"{new Uri(html).AbsoluteUri}\" \"{Artefact("export.png")}\"", E2e, 120);
         output.WriteLine(text);
         Assert.True(code == 0, text);
     }
@@ -244,7 +259,7 @@ public class ViewerBrowserTests(ViewerFixture fx, Xunit.Abstractions.ITestOutput
         string broken = Path.Combine(fx.Folder, "broken.msgpack");
         File.WriteAllBytes(broken, fx.Bytes.AsSpan(0, 2000).ToArray());
         await using var server = await ViewerServer.StartAsync("127.0.0.1", 0, broken, null);
-        var (code, text) = Exec("node", $"viewer.mjs {server.Url}", E2e, 120, new Dictionary<string, string> { ["EXPECT_ERROR"] = "broken.msgpack" });
+        var (code, text) = await ExecAsync("node", $"viewer.mjs {server.Url}", E2e, 120, new Dictionary<string, string> { ["EXPECT_ERROR"] = "broken.msgpack" });
         output.WriteLine(text);
         Assert.True(code == 0, text);
     }
