@@ -131,6 +131,7 @@ public static class RaceCommand
             if (b.Ocs) notes.Add("early start");
             if (b.WrongSide > 0) notes.Add($"wrong side x{b.WrongSide}");
             if (b.Penalties > 0) notes.Add($"penalty turn x{b.Penalties}");
+            if (b.PenaltiesNotTaken > 0) notes.Add($"penalty not taken x{b.PenaltiesNotTaken}");
             rows.Add([b.Place?.ToString(CultureInfo.InvariantCulture) ?? "-", b.Name, b.ElapsedS is double e ? Clock(e) : "-",
                 b.GapS is double g ? "+" + Clock(g) : "-", Legs(b.SplitsS), F(b.DistanceM / 1000, "0.00"), F(b.AverageSpeedMs / 0.514444, "0.0"),
                 string.Create(CultureInfo.InvariantCulture, $"{b.Tacks}/{b.Gybes}/{b.Falls}"), string.Join("; ", notes)]);
@@ -205,7 +206,7 @@ public static class RaceCommand
     {
         int legs = race.Course.Steps.Count;
         var sb = new StringBuilder();
-        sb.Append("place,board,name,equipment,finished,elapsed_s,gap_s,distance_m,avg_speed_kn,tacks,gybes,falls,ocs,wrong_side,penalties,give_ways");
+        sb.Append("place,board,name,equipment,finished,elapsed_s,gap_s,distance_m,avg_speed_kn,tacks,gybes,falls,ocs,wrong_side,penalties,give_ways,penalties_not_taken");
         for (int i = 1; i <= legs; i++) sb.Append(CultureInfo.InvariantCulture, $",leg_{i}_s");
         sb.Append('\n');
         foreach (var b in result.ByPlace)
@@ -214,7 +215,7 @@ public static class RaceCommand
               .Append(Csv(b.Name)).Append(',').Append(Csv(b.Equipment)).Append(',').Append(b.Finished ? "true" : "false").Append(',')
               .Append(N(b.ElapsedS)).Append(',').Append(N(b.GapS)).Append(',').Append(N(b.DistanceM)).Append(',').Append(N(b.AverageSpeedMs / 0.514444))
               .Append(',').Append(b.Tacks).Append(',').Append(b.Gybes).Append(',').Append(b.Falls).Append(',').Append(b.Ocs ? "true" : "false")
-              .Append(',').Append(b.WrongSide).Append(',').Append(b.Penalties).Append(',').Append(b.GiveWays);
+              .Append(',').Append(b.WrongSide).Append(',').Append(b.Penalties).Append(',').Append(b.GiveWays).Append(',').Append(b.PenaltiesNotTaken);
             double prev = 0;
             for (int i = 0; i < legs; i++)
             {
@@ -252,7 +253,7 @@ public static class RaceCommand
         {
             name = b.Name, place = b.Place, elapsed_s = b.ElapsedS, finished = b.Finished, distance_m = b.DistanceM, tacks = b.Tacks, gybes = b.Gybes,
             falls = b.Falls, gap_s = b.GapS, equipment = b.Equipment, ocs = b.Ocs, wrong_side = b.WrongSide, splits_s = b.SplitsS,
-            average_speed_kn = b.AverageSpeedMs / 0.514444, penalties = b.Penalties, give_ways = b.GiveWays,
+            average_speed_kn = b.AverageSpeedMs / 0.514444, penalties = b.Penalties, give_ways = b.GiveWays, penalties_not_taken = b.PenaltiesNotTaken,
         }),
         incidents = result.Incidents.Select(i => new
         {

@@ -186,7 +186,7 @@ public static class ExperimentReport
     static string Organisers(ExperimentSpec spec, IReadOnlyList<RaceRow> rows, IReadOnlyList<(string Variant, int Race, string Line)> metrics)
     {
         var sb = new StringBuilder("## For race organisers\n\n");
-        sb.Append("| variant | winner's time, median (P10-P90), min | mean leg times of finishers, min | line bias, mean abs (deg) | line advantage, mean (m) | first beat: share left; mean place left / right | peak boards within 30 m of a mark, mean | roundings within 5 s of the one before, per race | contacts per race |\n|---|---|---|---|---|---|---|---|---|\n");
+        sb.Append("| variant | winner's time, median (P10-P90), min | mean leg times of finishers, min | line bias, mean abs (deg) | line advantage, mean (m) | first beat: share left; mean place left / right | peak boards within 30 m of a mark, mean | roundings within 5 s of the one before, per race | contacts per race (avoidable) |\n|---|---|---|---|---|---|---|---|---|\n");
         foreach (var v in spec.Variants)
         {
             var m = metrics.Where(x => x.Variant == v.Name).Select(x => x.Line.Split(',')).ToList();
@@ -207,7 +207,7 @@ public static class ExperimentReport
             double shareLeft = (left.Count + right.Count) == 0 ? double.NaN : (double)left.Count / (left.Count + right.Count);
             double placeL = left.Where(r => r.Place is not null).Select(r => (double)r.Place!.Value).DefaultIfEmpty(double.NaN).Average();
             double placeR = right.Where(r => r.Place is not null).Select(r => (double)r.Place!.Value).DefaultIfEmpty(double.NaN).Average();
-            sb.Append(CultureInfo.InvariantCulture, $"| {v.Name} | {dur} | {legs} | {F(bias)} | {F(adv)} | {F(shareLeft * 100, "0")} %; {F(placeL)} / {F(placeR)} | {F(m.Average(f => P(f, 5)))} | {F(m.Average(f => P(f, 6)), "0.0")} | {F(m.Average(f => f.Length > 8 ? P(f, 8) : double.NaN), "0.00")} |\n");
+            sb.Append(CultureInfo.InvariantCulture, $"| {v.Name} | {dur} | {legs} | {F(bias)} | {F(adv)} | {F(shareLeft * 100, "0")} %; {F(placeL)} / {F(placeR)} | {F(m.Average(f => P(f, 5)))} | {F(m.Average(f => P(f, 6)), "0.0")} | {F(m.Average(f => f.Length > 8 ? P(f, 8) : double.NaN), "0.00")} ({F(m.Average(f => f.Length > 9 ? P(f, 9) : double.NaN), "0.00")}) |\n");
         }
         if (!double.IsNaN(spec.TargetDurationS))
         {
@@ -226,7 +226,7 @@ public static class ExperimentReport
         }
         sb.Append("\nLine bias: the wind at the middle of the line at the signal against the line's square; advantage = line length x sin(bias). ")
           .Append("Side: the board's mean offset from the line start to the first mark while on the first leg. ")
-          .Append("Contacts: pairs of boards whose hulls come within 1 m at a recorded instant (the incidents the right-of-way rules will judge; no rules are applied yet).\n\n");
+          .Append("Contacts: hulls within 1 m, judged under the racing rules (docs/tactics.md); avoidable: the keep-clear rider had seen it in time and was free to act.\n\n");
         return sb.ToString();
     }
 

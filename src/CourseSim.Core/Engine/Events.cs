@@ -5,10 +5,14 @@ public enum RaceEventKind : byte { Started, Ocs, Cleared, Rounded, WrongSide, Ta
 /// <summary>Something that happened in the race: when (s from the signal), where, to which board, and a detail.</summary>
 public readonly record struct RaceEvent(double TimeS, int Board, RaceEventKind Kind, double X, double Y, string Detail);
 
-/// <summary>One board's result.</summary>
+/// <summary>
+/// One board's result. <see cref="Penalties"/>: one-turn penalties taken; <see cref="PenaltiesNotTaken"/>: penalties
+/// still owed when the board finished or the race ended (never well clear of the others in time; RRS 44.1 asks for
+/// them as soon as possible, so a protest committee would act on them).
+/// </summary>
 public sealed record BoardResult(int Board, string Name, string Equipment, int? Place, bool Finished, double? ElapsedS,
     double? GapS, IReadOnlyList<double> SplitsS, double DistanceM, double AverageSpeedMs, int Tacks, int Gybes, int Falls,
-    bool Ocs, int WrongSide, int Penalties = 0, int GiveWays = 0);
+    bool Ocs, int WrongSide, int Penalties = 0, int GiveWays = 0, int PenaltiesNotTaken = 0);
 
 /// <summary>The outcome of a race.</summary>
 public sealed record RaceResult(ulong Seed, string Scenario, double DurationS, IReadOnlyList<BoardResult> Boards,

@@ -30,6 +30,14 @@ public sealed partial class Race
     public const double LastMomentS = 1.5;
     /// <summary>Least true wind angle a give-way rider heads up to, deg (model value: a little below close-hauled).</summary>
     public const double AvoidMinTwaDeg = 38;
+    /// <summary>
+    /// A running give-way rider may gybe away when no turn on the present gybe keeps clear: only from a true wind angle
+    /// of at least this (deg) onto one of at least this on the other gybe, a small turn through dead downwind
+    /// (common practice: on a run the cheapest way out of a converging crossing is often to gybe away; model value).
+    /// </summary>
+    public const double GybeAwayMinTwaDeg = 140;
+    /// <summary>Mean speed through a gybe away as a share of the present speed, and its score charge in degrees of turn (model values).</summary>
+    public const double GybeAwaySpeedShare = 0.75, GybeAwayCharge = 40;
     /// <summary>A rider is well clear to take a penalty with no other board this close, m (model value).</summary>
     public const double WellClearM = 15;
 
@@ -81,6 +89,9 @@ public sealed partial class Race
 
     /// <summary>Penalty turns taken by a board (served in full).</summary>
     public int PenaltiesOf(int board) => _penaltiesTaken.Length > board ? _penaltiesTaken[board] : 0;
+
+    /// <summary>One-turn penalties a board still owes (begun or not).</summary>
+    public int PenaltiesOwedBy(int board) => _penaltyOwed.Length > board ? _penaltyOwed[board] : 0;
 
     /// <summary>
     /// System 8, rules (docs/tactics.md). At the lookout rate each rider scans the boards within range and projects
@@ -378,19 +389,25 @@ public sealed partial class Race
         ReadOnlySpan<double> fixedOffsets = [0, 10, -10, 20, -20, 30, -30, 45, -45, 60, -60, 80, -80, 100, -100, 120, -120];
         fixedOffsets.CopyTo(offsets);
         offsets[17] = Unit.RadToDeg(Unit.WrapRadPi(DuckTrack(k, _threats[0], va) - baseH));
+        // On a run (and not already putting off a turn) a gybe away is a candidate too, vetted against every board in
+        // sight, not only the threats of the present gybe: it must not sail into another (RRS 15, 16).
+        bool mayGybe = !turning && Math.Abs(SignedAngle(from, cur)) >= Unit.DegToRad(GybeAwayMinTwaDeg);
         for (int slow = 0; slow < 2; slow++)
             for (int oi = 0; oi < offsets.Length; oi++)
             {
                 double off = offsets[oi];
                 double h = Unit.WrapRadPi(baseH + Unit.DegToRad(off));
                 double twa = SignedAngle(from, h);
-                if (Math.Sign(twa) != side || Math.Abs(twa) < Unit.DegToRad(AvoidMinTwaDeg) || Math.Abs(twa) > Unit.DegToRad(178)) continue;
+                bool gybe = Math.Sign(twa) != side;
+                if (gybe && !(mayGybe && slow == 0 && Math.Abs(twa) >= Unit.DegToRad(GybeAwayMinTwaDeg))) continue;
+                if (Math.Abs(twa) < Unit.DegToRad(AvoidMinTwaDeg) || !gybe && Math.Abs(twa) > Unit.DegToRad(178)) continue;
                 // Luffing, a board coasts to a stop over a few seconds (mean speed over the next three seconds about 60 %
                 // of the present one); sheeting out on a run hardly slows it (model values).
-                double v = slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.6 : 0.85) * _sv[k] : va;
+                double v = gybe ? GybeAwaySpeedShare * va : slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.6 : 0.85) * _sv[k] : va;
                 double worst = double.PositiveInfinity;
-                foreach (int j in _threats) worst = Math.Min(worst, PredictedHullGap(k, h, v, j) - PassClear(k, h, v, j));
-                double score = Math.Abs(off) + (slow == 1 ? 25 : 0) + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);
+                if (gybe) for (int q = _adjStart[k]; q < _adjStart[k + 1]; q++) worst = Math.Min(worst, PredictedHullGap(k, h, v, _adj[q]) - PassClear(k, h, v, _adj[q]));
+                else foreach (int j in _threats) worst = Math.Min(worst, PredictedHullGap(k, h, v, j) - PassClear(k, h, v, j));
+                double score = Math.Abs(off) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);
                 if (_avoidOn[k] && (slow == 1) == (_avoidP[k] == 0) && Math.Abs(Unit.WrapRadPi(h - _avoidH[k])) < Unit.DegToRad(6)) score -= 15;
                 if (score < bestScore) { bestScore = score; bestH = h; bestP = slow == 1 ? 0 : 1; }
             }

@@ -251,7 +251,7 @@ public sealed partial class Race
         // interval ahead along their heading), so a layline or a mark is not noticed only once passed.
         double lead = _reactionS[b] + 0.5 * _decisionS;
         var pl = p + lead * speed * Vec2.FromBearing(Unit.RadToDeg(pose.Heading));
-        var aim = AimPoint(st.NextStep, pl);
+        var aim = AimPoint(st.NextStep, pl, pose.Heading, from);
         o.AimPoint = aim;
         double direct = Math.Abs(Unit.RadToDeg(SignedAngle(from, Unit.DegToRad((aim - pl).Bearing))));
         double up = Unit.RadToDeg(_rigs[b].BestTwa(tws, true)), down = Unit.RadToDeg(_rigs[b].BestTwa(tws, false));
@@ -333,9 +333,13 @@ public sealed partial class Race
     /// (outside the incoming leg), then an exit point just outside it on the rounding ray, so the track goes round it the
     /// required way; close to the exit point the rider already looks to the step after.
     /// </summary>
-    Vec2 AimPoint(int step, Vec2 p)
+    Vec2 AimPoint(int step, Vec2 p, double headingRad = double.NaN, double fromDeg = double.NaN)
     {
         var s = Course.Steps[step];
+        // Finishing off the wind, the rider picks the point of the line (upwind, the laylines to its middle rule).
+        if (s.Kind == StepKind.Finish && s.Line is { } finish && !double.IsNaN(headingRad)
+            && Math.Abs(SignedAngle(fromDeg, Unit.DegToRad((finish.Mid - p).Bearing))) > Math.PI / 2)
+            return FinishAim(finish, p, headingRad);
         if (s.Kind != StepKind.Mark) return s.Target;
         var mark = s.Target;
         var din = Course.Incoming(step);
@@ -347,6 +351,28 @@ public sealed partial class Race
         var exit = mark + RoundingOffsetM * Course.Outside(step);
         if ((exit - p).Length > 4 || step + 1 >= Course.Steps.Count) return exit;
         return Course.Steps[step + 1].Target;
+    }
+
+    /// <summary>Share of a finish line's length, at each end, a rider keeps off when choosing where to cross it (model value).</summary>
+    public const double FinishEndInset = 0.15;
+
+    /// <summary>
+    /// Where a rider finishing off the wind crosses the line: where the present heading meets it, kept off its ends (so
+    /// a fleet finishes along the whole line rather than all converging on its middle; common practice: any point of
+    /// the line will do, sail the shortest way to it); the middle when the heading does not meet the line ahead.
+    /// </summary>
+    static Vec2 FinishAim(CourseLine line, Vec2 p, double headingRad)
+    {
+        var along = line.B - line.A;
+        var dir = new Vec2(Math.Sin(headingRad), Math.Cos(headingRad));
+        double den = Vec2.Cross(dir, along);
+        if (Math.Abs(den) < 1e-9) return line.Mid;
+        // p + s dir = A + u along: s = cross(A - p, along) / den, u = cross(A - p, dir) / den.
+        var ap = line.A - p;
+        double ahead = Vec2.Cross(ap, along) / den, u = Vec2.Cross(ap, dir) / den;
+        if (ahead <= 0) return line.Mid;
+        u = Math.Clamp(u, FinishEndInset, 1 - FinishEndInset);
+        return line.A + u * along;
     }
 
     /// <summary>

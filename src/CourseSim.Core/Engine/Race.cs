@@ -306,7 +306,7 @@ public sealed partial class Race
             double sailing = fin ? st.FinishedS : Math.Max(Time, 1e-9);
             rows.Add(new BoardResult(b, Setup.Boards[b].Name, Setup.Boards[b].Equipment.Name, place.TryGetValue(b, out int p) ? p : null, fin, el,
                 fin && best is double bt ? st.FinishedS - bt : null, _splits[b].ToArray(), m.Distance,
-                m.Distance / Math.Max(sailing, 1e-9), st.Tacks, st.Gybes, st.Falls, st.Ocs, st.WrongSide, PenaltiesOf(b), _giveWays.Length > b ? _giveWays[b] : 0));
+                m.Distance / Math.Max(sailing, 1e-9), st.Tacks, st.Gybes, st.Falls, st.Ocs, st.WrongSide, PenaltiesOf(b), _giveWays.Length > b ? _giveWays[b] : 0, PenaltiesOwedBy(b)));
         }
         // Events in time order (ties: board, then kind), whichever way the step walked the fleet.
         var events = _events.Select((e, n) => (e, n)).OrderBy(x => x.e.TimeS).ThenBy(x => x.e.Board).ThenBy(x => x.e.Kind).ThenBy(x => x.n)

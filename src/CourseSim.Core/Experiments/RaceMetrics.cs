@@ -10,17 +10,17 @@ namespace CourseSim.Experiments;
 /// was, which side of the first beat each board took, and how boards bunched at the marks.
 /// </summary>
 public sealed record RaceMetrics(double WinnerS, double LineBiasDeg, double LineBiasM, double PeakAtMark, int CloseArrivals,
-    IReadOnlyDictionary<int, string> FirstBeatSide, double WindKn = double.NaN, int Contacts = 0)
+    IReadOnlyDictionary<int, string> FirstBeatSide, double WindKn = double.NaN, int Contacts = 0, int AvoidableContacts = 0)
 {
     /// <summary>Radius around a mark counted as "at the mark" for congestion, m (about three board lengths and room; model value).</summary>
     public const double MarkRadiusM = 30;
     /// <summary>Two roundings of the same mark this close in time count as a close arrival, s.</summary>
     public const double CloseArrivalS = 5;
 
-    public const string Header = "variant,race,winner_s,line_bias_deg,line_bias_m,peak_boards_at_mark,close_arrivals,wind_kn,contacts";
+    public const string Header = "variant,race,winner_s,line_bias_deg,line_bias_m,peak_boards_at_mark,close_arrivals,wind_kn,contacts,avoidable_contacts";
 
     public string ToCsv(string variant, int race) => string.Join(',', variant, race.ToString(CultureInfo.InvariantCulture), F(WinnerS), F(LineBiasDeg),
-        F(LineBiasM), F(PeakAtMark), CloseArrivals.ToString(CultureInfo.InvariantCulture), F(WindKn), Contacts.ToString(CultureInfo.InvariantCulture));
+        F(LineBiasM), F(PeakAtMark), CloseArrivals.ToString(CultureInfo.InvariantCulture), F(WindKn), Contacts.ToString(CultureInfo.InvariantCulture), AvoidableContacts.ToString(CultureInfo.InvariantCulture));
 
     static string F(double v) => double.IsFinite(v) ? Math.Round(v, 3).ToString("0.###", CultureInfo.InvariantCulture) : "";
 
@@ -66,41 +66,9 @@ public sealed record RaceMetrics(double WinnerS, double LineBiasDeg, double Line
             var times = g.Select(e => e.TimeS).Order().ToArray();
             for (int i = 1; i < times.Length; i++) if (times[i] - times[i - 1] <= CloseArrivalS) close++;
         }
-        // Incidents, until the rules come: contacts, pairs of racing boards whose hulls come within 1 m at a recorded
-        // instant (Rules.RightOfWay.Contact), counted once per pair per approach.
-        int contacts = 0;
-        var touching = new HashSet<(int, int)>();
-        var now = new HashSet<(int, int)>();
-        var order = new int[race.BoardCount];
-        var xs = new float[race.BoardCount];
-        for (int k = 0; k < rec.Frames; k++)
-        {
-            if (rec.TimeOf(k) < 0) continue;
-            var frame = rec.Frame(k);
-            for (int i = 0; i < order.Length; i++) order[i] = i;
-            for (int i = 0; i < frame.Length; i++) xs[i] = frame[i].X;
-            Array.Sort(xs, order);
-            now.Clear();
-            for (int i = 0; i < order.Length; i++)
-            {
-                ref readonly var a0 = ref frame[order[i]];
-                if ((a0.Flags & 32) != 0) continue;
-                for (int j = i + 1; j < order.Length; j++)
-                {
-                    ref readonly var b0 = ref frame[order[j]];
-                    if (b0.X - a0.X > 6) break; // farther apart in x than two hull lengths and the clearance
-                    if ((b0.Flags & 32) != 0) continue;
-                    double la = race.Setup.Boards[order[i]].Equipment.Board.LengthM, lb = race.Setup.Boards[order[j]].Equipment.Board.LengthM;
-                    var ra = new CourseSim.Rules.RuleBoard(a0.X, a0.Y, a0.HeadingDeg, la);
-                    var rb = new CourseSim.Rules.RuleBoard(b0.X, b0.Y, b0.HeadingDeg, lb);
-                    if (!CourseSim.Rules.RightOfWay.Contact(ra, rb)) continue;
-                    var key = (Math.Min(order[i], order[j]), Math.Max(order[i], order[j]));
-                    now.Add(key);
-                    if (!touching.Contains(key)) contacts++;
-                }
-            }
-            (touching, now) = (now, touching);
-        }
-        return new RaceMetrics(winner, bias, advantage, peak, close, sides, race.Setup.Wind.SpeedKn, contacts);
+        // Incidents: the contacts the engine judged (every step, docs/tactics.md), and those it classed as ones the
+        // give-way logic could have avoided.
+        int contacts = result.Incidents.Count, avoidable = result.Incidents.Count(i => i.Avoidable);
+        return new RaceMetrics(winner, bias, advantage, peak, close, sides, race.Setup.Wind.SpeedKn, contacts, avoidable);
     }
 }

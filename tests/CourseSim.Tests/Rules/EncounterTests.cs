@@ -106,6 +106,31 @@ public class EncounterTests
     }
 
     [Fact]
+    public void RunningOnOppositeGybes_PortKeepsClear_Rule10()
+    {
+        // Both running, converging at 25 deg on opposite gybes towards the same point, starboard slightly faster: the
+        // port board can neither luff far enough nor slow on a run, so it gybes away (or turns clear) and no contact.
+        Race Make(bool gw)
+        {
+            var race = Build(Board("s", "test-hold", "twa_deg = 160") + Board("p", "test-hold", "twa_deg = -175"), gw);
+            Toward(race, 0, 160, 0, 0, 10);
+            Toward(race, 1, -175, 0, 0, 10);
+            return race;
+        }
+        var (r, turn) = Sail(Make(true), 30);
+        Assert.Empty(r.Incidents);
+        Assert.Contains(GiveWays(r, 1), e => e.Detail.Contains("rule 10"));
+        Assert.DoesNotContain(GiveWays(r, 0), e => e.Detail.Contains("rule 10"));
+        Assert.True(turn[0] < 6, $"starboard board held its course (turned {turn[0]:F1} deg)");
+        Assert.True(r.Boards[1].Gybes >= 1, $"the port board gybed away: {string.Join("; ", r.Events.Where(e => e.Board == 1).Select(e => $"{e.TimeS:F1} {e.Kind} {e.Detail}"))}");
+
+        var (rb, _) = Sail(Make(false), 30);
+        var inc = Assert.Single(rb.Incidents);
+        Assert.Equal("10", inc.Rule);
+        Assert.Equal(1, inc.KeepClear);
+    }
+
+    [Fact]
     public void WindwardOverlappedOnLeeward_WindwardKeepsClear_Rule11()
     {
         // Both on starboard, overlapped 2.5 m abeam; the windward board sails 7 deg lower, eased so as not to draw ahead, and converges on the leeward one.

@@ -7,18 +7,24 @@ namespace CourseSim.Tests.Rules;
 /// <summary>
 /// The forty-board demo (scenarios/korrin-bay-fleet40.toml): crowded start, port-starboard crossings, packed roundings.
 /// The race completes; every contact is judged, and none is one the give-way logic could have avoided (the keep-clear
-/// rider saw it in time, was free to act and the right-of-way board held its course; docs/tactics.md); every penalty
-/// given is served; the replay carries the same incidents.
+/// rider saw it in time, was free to act and the right-of-way board held its course; docs/tactics.md). The same race
+/// with nobody looking out (rules.give_way = false) shows the logic at work: many more contacts, each judged under a
+/// rule, every penalty given served or listed as not taken, and the replay carrying the same incidents.
 /// </summary>
 public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
 {
+    static (Race Race, RaceResult Result) Fleet(params string[] sets)
+    {
+        var setup = ScenarioFile.LoadRace(Path.Combine(RepoRoot.Path, "scenarios", "korrin-bay-fleet40.toml"), sets);
+        Assert.Equal(40, setup.Boards.Count);
+        var race = new Race(setup);
+        return (race, race.Run());
+    }
+
     [Fact]
     public void TheFortyBoardDemoRaceHasNoContactTheGiveWayLogicCouldHaveAvoided()
     {
-        var setup = ScenarioFile.LoadRace(Path.Combine(RepoRoot.Path, "scenarios", "korrin-bay-fleet40.toml"));
-        Assert.Equal(40, setup.Boards.Count);
-        var race = new Race(setup);
-        var res = race.Run();
+        var (race, res) = Fleet();
         foreach (var i in res.Incidents)
             output.WriteLine($"{i.TimeS,7:F1} s ({i.X:F0}, {i.Y:F0}) rule {i.Rule} keep clear {i.KeepClear} other {i.RightOfWay}: {i.Detail}");
         Assert.True(res.Boards.Count(b => b.Finished) >= 36, $"{res.Boards.Count(b => b.Finished)} of 40 finished");
@@ -26,18 +32,38 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
         Assert.All(res.Incidents, i => Assert.Contains(i.Rule, new[] { "10", "11", "12", "13", "18", "22" }));
         // Riders did give way (the logic was exercised, not idle), and each penalty given was taken.
         Assert.True(res.Boards.Sum(b => b.GiveWays) > 100, $"{res.Boards.Sum(b => b.GiveWays)} give-way episodes");
-        int given = res.Incidents.Count(i => i.Penalty);
-        Assert.Equal(given, res.Boards.Sum(b => b.Penalties));
-        Assert.Equal(given, res.Events.Count(e => e.Kind == RaceEventKind.PenaltyServed));
+        Assert.Equal(res.Incidents.Count(i => i.Penalty), res.Boards.Sum(b => b.Penalties + b.PenaltiesNotTaken));
+        // The downwind finish is crossed along the line, not all at its middle (docs/engine.md): the middle half of the
+        // crossing points spans more than a fifth of the line.
+        var line = race.Course.Steps[^1].Line!;
+        var along = line.B - line.A;
+        var u = res.Events.Where(e => e.Kind == RaceEventKind.Finished)
+            .Select(e => CourseSim.Courses.Vec2.Dot(new CourseSim.Courses.Vec2(e.X, e.Y) - line.A, along) / along.Length / along.Length).Order().ToArray();
+        double iqr = u[(int)(0.75 * (u.Length - 1))] - u[(int)(0.25 * (u.Length - 1))];
+        output.WriteLine($"finish crossings: interquartile range {iqr:F2} of the line ({u.Length} boards)");
+        Assert.True(iqr > 0.2, $"finish crossings bunched: interquartile range {iqr:F2} of the line");
 
-        var back = ReplayFile.Read(ReplayFile.Write(race, res), "fleet.msgpack");
-        Assert.Equal(res.Incidents.Count, back.Incidents.Count);
-        for (int k = 0; k < res.Incidents.Count; k++)
+        // Nobody looking out: the same fleet collides far more often, and every contact is judged and penalised.
+        var (blind, off) = Fleet("rules.give_way=false");
+        output.WriteLine($"give-way on: {res.Incidents.Count} contacts; off: {off.Incidents.Count}");
+        Assert.True(off.Incidents.Count >= res.Incidents.Count + 10, $"{off.Incidents.Count} contacts with nobody giving way, {res.Incidents.Count} with");
+        Assert.All(off.Incidents, i => Assert.Contains(i.Rule, new[] { "10", "11", "12", "13", "18", "22" }));
+        Assert.All(off.Incidents.Where(i => i.Rule != "22"), i => Assert.Equal("give-way logic off", i.Detail));
+        // Every penalty given is either served (an event each) or listed as not taken (never well clear before the finish).
+        int given = off.Incidents.Count(i => i.Penalty), taken = off.Boards.Sum(b => b.Penalties);
+        output.WriteLine($"penalties given {given}, taken {taken}, not taken {off.Boards.Sum(b => b.PenaltiesNotTaken)}");
+        Assert.True(taken > 0 && taken >= given / 2, $"{taken} of {given} penalties taken");
+        Assert.Equal(given, taken + off.Boards.Sum(b => b.PenaltiesNotTaken));
+        Assert.Equal(taken, off.Events.Count(e => e.Kind == RaceEventKind.PenaltyServed));
+
+        var back = ReplayFile.Read(ReplayFile.Write(blind, off), "fleet.msgpack");
+        Assert.Equal(off.Incidents.Count, back.Incidents.Count);
+        for (int k = 0; k < off.Incidents.Count; k++)
         {
-            Assert.Equal(res.Incidents[k].Rule, back.Incidents[k].Rule);
-            Assert.Equal(res.Incidents[k].KeepClear, back.Incidents[k].KeepClear);
-            Assert.Equal(res.Incidents[k].TimeS, back.Incidents[k].TimeS, 9);
+            Assert.Equal(off.Incidents[k].Rule, back.Incidents[k].Rule);
+            Assert.Equal(off.Incidents[k].KeepClear, back.Incidents[k].KeepClear);
+            Assert.Equal(off.Incidents[k].TimeS, back.Incidents[k].TimeS, 9);
         }
-        Assert.Equal(res.Events.Count(e => e.Kind == RaceEventKind.Contact), back.Events.Count(e => e.Kind == "contact"));
+        Assert.Equal(off.Events.Count(e => e.Kind == RaceEventKind.Contact), back.Events.Count(e => e.Kind == "contact"));
     }
 }
