@@ -30,11 +30,57 @@ public static class TacticRegistry
 
     public static bool TryGet(string name, out TacticSpec spec) { lock (Gate) return Specs.TryGetValue(name, out spec!); }
 
+    /// <summary>
+    /// Registers the tactics of a compiled assembly (a class library built against CourseSim.Core): every public static
+    /// property or field of type <see cref="TacticSpec"/> on its public types. Returns their names. Loading the same
+    /// file again is harmless; a name that is a built-in tactic, or one another assembly already gave, is an error.
+    /// </summary>
+    public static IReadOnlyList<string> LoadAssembly(string path)
+    {
+        string full = System.IO.Path.GetFullPath(path);
+        if (!File.Exists(full)) throw new TacticLoadException($"tactic assembly '{path}' not found (looked for {full})");
+        System.Reflection.Assembly asm;
+        try { asm = System.Reflection.Assembly.LoadFrom(full); }
+        catch (BadImageFormatException) { throw new TacticLoadException($"'{path}' is not a .NET assembly (build your tactics as a class library: docs/tactics.md)"); }
+        catch (FileLoadException e) { throw new TacticLoadException($"'{path}' could not be loaded: {e.Message}"); }
+        var found = new List<TacticSpec>();
+        Type[] types;
+        try { types = asm.GetExportedTypes(); }
+        catch (Exception e) when (e is System.Reflection.ReflectionTypeLoadException or FileNotFoundException or FileLoadException)
+        {
+            throw new TacticLoadException($"'{path}' needs an assembly that cannot be found or loaded ({e.Message}); build it against this CourseSim.Core");
+        }
+        const System.Reflection.BindingFlags Flags = System.Reflection.BindingFlags.Public | System.Reflection.BindingFlags.Static;
+        foreach (var t in types)
+        {
+            foreach (var p in t.GetProperties(Flags))
+                if (p.PropertyType == typeof(TacticSpec) && p.GetIndexParameters().Length == 0 && p.GetValue(null) is TacticSpec s) found.Add(s);
+            foreach (var fld in t.GetFields(Flags))
+                if (fld.FieldType == typeof(TacticSpec) && fld.GetValue(null) is TacticSpec s) found.Add(s);
+        }
+        if (found.Count == 0) throw new TacticLoadException($"'{path}' has no tactic: expose one as a public static TacticSpec property on a public class (docs/examples/LullTackTactic.cs)");
+        var names = new List<string>();
+        foreach (var s in found.DistinctBy(s => s.Name))
+        {
+            if (BuiltInTactics.All.Any(b => b.Name == s.Name)) throw new TacticLoadException($"'{path}': tactic '{s.Name}' has the name of a built-in tactic; choose another");
+            lock (Gate)
+                if (Specs.TryGetValue(s.Name, out var had) && !ReferenceEquals(had, s) && had.Create.Method.Module != s.Create.Method.Module)
+                    throw new TacticLoadException($"'{path}': tactic '{s.Name}' is already given by another assembly ({had.Create.Method.Module.Assembly.Location})");
+            try { Register(s); }
+            catch (ArgumentException e) { throw new TacticLoadException($"'{path}': {e.Message}"); }
+            names.Add(s.Name);
+        }
+        return names;
+    }
+
     /// <summary>Known names, sorted.</summary>
     public static IReadOnlyList<string> Names { get { lock (Gate) return Specs.Keys.Order(StringComparer.Ordinal).ToArray(); } }
 
     public static IReadOnlyList<TacticSpec> All { get { lock (Gate) return Specs.Values.OrderBy(s => s.Name, StringComparer.Ordinal).ToArray(); } }
 }
+
+/// <summary>A tactic assembly that cannot be used: what is wrong, in words for the user.</summary>
+public sealed class TacticLoadException(string message) : Exception(message);
 
 /// <summary>The built-in tactics. Each one's parameters are what a coach would tune; defaults are model values.</summary>
 public static class BuiltInTactics

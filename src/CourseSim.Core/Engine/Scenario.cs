@@ -93,6 +93,7 @@ public static class ScenarioFile
         KeySpec.Text("race.start_time_utc", "2026-06-14T13:00:00Z", "clock time of the starting signal (ISO 8601, UTC), used in GPX"),
         KeySpec.Number("race.seed", 0, 9007199254740991, 1, "seed used when --seed is not given"),
         .. CourseBuilder.Keys,
+        KeySpec.Text("tactics.assemblies", "", "compiled class libraries with tactics of your own, relative to the scenario file, separated by ';' (docs/tactics.md)"),
         KeySpec.Text("boards.*.equipment", "", "equipment file of this board, relative to the scenario file"),
         KeySpec.Text("boards.*.name", "", "name shown in results (default: the equipment's name)"),
         KeySpec.Text("boards.*.set", "", "equipment overrides for this board, 'table.key=value' separated by ';'"),
@@ -135,6 +136,12 @@ public static class ScenarioFile
         };
         if (race.RecordIntervalS < 1 / race.StepHz) throw f.ErrorAt("race.record_interval_s", $"must be at least one step (1/{race.StepHz} s)");
         var course = CourseBuilder.Build(f, wind.DirectionDeg);
+        // Tactics of the user's own come first, so the boards can name them.
+        foreach (var dll in f.Text("tactics.assemblies").Split(';', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
+        {
+            try { TacticRegistry.LoadAssembly(Path.Combine(f.Directory, dll)); }
+            catch (TacticLoadException e) { throw f.ErrorAt("tactics.assemblies", e.Message); }
+        }
         var ids = f.Names("boards");
         if (ids.Count == 0) throw new SettingsException(f.Path, 0, "boards", "a race needs at least one board: add a [boards.NAME] table with equipment = \"file.toml\"");
         var boards = new List<BoardEntry>();

@@ -3,6 +3,7 @@ using CourseSim.Engine;
 using CourseSim.Examples;
 using CourseSim.Settings;
 using CourseSim.Tests.Engine;
+using CourseSim.Tests.Settings;
 
 namespace CourseSim.Tests.Agents;
 
@@ -54,6 +55,53 @@ public class UserTacticTests
         var ok = EngineTestKit.Parse(two("rival = \"b\"\n"));
         Assert.Equal(1, ok.Boards[0].RivalIndex);
         Assert.True(new Race(ok).Run().Boards.All(x => x.Finished));
+    }
+
+    /// <summary>
+    /// The same example built as a class library of its own (docs/examples/LullTack.csproj) and named in a scenario's
+    /// [tactics] table: the coursesim command (a separate process, which never saw the tests' registration) loads it,
+    /// and a board sails it. A path that is missing, not an assembly, or an assembly with no tactic is a scenario error.
+    /// </summary>
+    [Fact]
+    public void ACompiledTacticAssemblyNamedInTheScenarioIsLoadedByTheCommand()
+    {
+        string dir = Directory.CreateTempSubdirectory("coursesim-usertactic-").FullName;
+        try
+        {
+            string lib = Path.Combine(dir, "lib");
+            var (bc, bt) = Run("dotnet", $"build \"{Path.Combine(RepoRoot.Path, "docs", "examples", "LullTack.csproj")}\" -o \"{lib}\" -nologo -v q", 600);
+            Assert.True(bc == 0, $"building the example failed: {bt}");
+            string scen = Path.Combine(dir, "race.toml");
+            File.WriteAllText(scen, Scenario("lull-tack", "lull_kn = 1.5", 0.15).Replace("[wind]", "[tactics]\nassemblies = \"lib/LullTack.dll\"\n[wind]"));
+            string cli = Path.Combine(AppContext.BaseDirectory, "coursesim.dll");
+            var (rc, rt) = Run("dotnet", $"\"{cli}\" race \"{scen}\" --out \"{Path.Combine(dir, "out")}\" --format json", 300);
+            Assert.True(rc == 0, rt);
+            using var doc = System.Text.Json.JsonDocument.Parse(File.ReadAllText(Path.Combine(dir, "out", "summary.json")));
+            Assert.True(doc.RootElement.GetProperty("boards")[0].GetProperty("finished").GetBoolean());
+            Assert.True(doc.RootElement.GetProperty("boards")[0].GetProperty("tacks").GetInt32() > 1);
+
+            // Clear errors, with the scenario's file and line, for a file that is not there, not an assembly, or has no tactic.
+            foreach (var (path, says) in new[] { ("lib/Missing.dll", "not found"), ("race.toml", "not a .NET assembly"), ("lib/LullTack.deps.json", "not a .NET assembly") })
+            {
+                File.WriteAllText(scen, Scenario("vmg-layline", "", 0).Replace("[wind]", $"[tactics]\nassemblies = \"{path}\"\n[wind]"));
+                var e = Assert.Throws<SettingsException>(() => ScenarioFile.LoadRace(scen));
+                Assert.Contains(says, e.Message);
+                Assert.Equal(2, e.Line);
+            }
+            File.WriteAllText(scen, Scenario("vmg-layline", "", 0).Replace("[wind]", $"[tactics]\nassemblies = \"{Path.Combine(AppContext.BaseDirectory, "Tomlyn.dll")}\"\n[wind]"));
+            Assert.Contains("has no tactic", Assert.Throws<SettingsException>(() => ScenarioFile.LoadRace(scen)).Message);
+        }
+        finally { try { Directory.Delete(dir, true); } catch (IOException) { } }
+    }
+
+    static (int Code, string Output) Run(string file, string args, int timeoutS)
+    {
+        var psi = new System.Diagnostics.ProcessStartInfo(file, args) { RedirectStandardOutput = true, RedirectStandardError = true };
+        using var p = System.Diagnostics.Process.Start(psi)!;
+        var so = p.StandardOutput.ReadToEndAsync(); var se = p.StandardError.ReadToEndAsync();
+        if (!p.WaitForExit(timeoutS * 1000)) { p.Kill(true); return (-1, $"timed out after {timeoutS} s"); }
+        p.WaitForExit();
+        return (p.ExitCode, so.GetAwaiter().GetResult() + se.GetAwaiter().GetResult());
     }
 
     [Fact]
