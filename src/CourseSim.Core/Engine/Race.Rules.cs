@@ -38,6 +38,15 @@ public sealed partial class Race
     public const double GybeAwayMinTwaDeg = 140;
     /// <summary>Mean speed through a gybe away as a share of the present speed, and its score charge in degrees of turn (model values).</summary>
     public const double GybeAwaySpeedShare = 0.75, GybeAwayCharge = 40;
+    /// <summary>
+    /// A beating give-way rider (this close to the wind or closer, deg) may tack away onto the best VMG angle of the other
+    /// tack, when no board is within <see cref="TurnAwayMinM"/>: at this share of the present speed over the look
+    /// ahead, charged as this many degrees of turn (common practice: tack away rather than duck when crossing is
+    /// close; RRS 13 and 15 then ask the tacker to keep clear and to give room; model values).
+    /// </summary>
+    public const double TackAwayMaxTwaDeg = 75, TackAwaySpeedShare = 0.3, TackAwayCharge = 60;
+    /// <summary>A give-way rider does not tack or gybe away with another board's centre closer than this, m: the distance under which the judge counts a turn as begun too close.</summary>
+    public const double TurnAwayMinM = TurnTooCloseM;
     /// <summary>A rider is well clear to take a penalty with no other board this close, m (model value).</summary>
     public const double WellClearM = 15;
 
@@ -51,7 +60,7 @@ public sealed partial class Race
     int[] _penaltyOwed = [], _penaltyStage = [], _penaltySign = [], _penaltiesTaken = [], _giveWays = [];
     double[] _turnStartS = [], _turnStartNearestM = [], _lengthM = [];
     // Lookout snapshot of the fleet.
-    double[] _sx = [], _sy = [], _sh = [], _st = [], _sv = [], _sa = [], _sFrom = [];
+    double[] _sx = [], _sy = [], _sh = [], _st = [], _sv = [], _sa = [], _sFrom = [], _sTws = [];
     bool[] _sLive = [], _sTacking = [], _sCapsized = [], _sBusy = [];
     int[] _sNext = [];
     long[] _cellKey = [], _cellX = [], _cellY = []; int[] _cellOrder = [];
@@ -80,7 +89,7 @@ public sealed partial class Race
         // Hull lengths, read at every lookout and contact check.
         _lengthM = new double[n];
         for (int b = 0; b < n; b++) _lengthM[b] = _rig[b].Physics.Equipment.Board.LengthM;
-        _sx = new double[n]; _sy = new double[n]; _sh = new double[n]; _st = new double[n]; _sa = new double[n]; _sv = new double[n]; _sFrom = new double[n];
+        _sx = new double[n]; _sy = new double[n]; _sh = new double[n]; _st = new double[n]; _sa = new double[n]; _sv = new double[n]; _sFrom = new double[n]; _sTws = new double[n];
         _sLive = new bool[n]; _sTacking = new bool[n]; _sCapsized = new bool[n]; _sBusy = new bool[n]; _sNext = new int[n];
         _cellKey = new long[n]; _cellX = new long[n]; _cellY = new long[n]; _cellOrder = new int[n];
         _lookoutEvery = Math.Max(1, (int)Math.Round(Settings.StepHz / Math.Min(Setup.Rules.LookoutHz, Settings.StepHz)));
@@ -97,7 +106,8 @@ public sealed partial class Race
     /// System 8, rules (docs/tactics.md). At the lookout rate each rider scans the boards within range and projects
     /// both tracks ahead (closest point of approach at present speeds, the rider on the heading they want): a conflict
     /// with a board they must keep clear of (rules 10-13, 18 as changed by Appendix B) makes them act, after their
-    /// reaction time, by the least change that clears it (bear away to duck, head up, slow down, or put off a tack); a
+    /// reaction time, by the least change that clears it (bear away to duck, head up, slow down, tack or gybe away, or
+    /// put off a tack); a
     /// right-of-way rider holds course unless contact is imminent (rule 14). Every step the pairs that are close are
     /// checked for contact, which is judged and penalised.
     /// </summary>
@@ -123,7 +133,7 @@ public sealed partial class Race
                 // The acceleration a rider reads from the other's speed since the last look (clamped: a board gathers or loses
                 // speed at a few m/s per second at most).
                 _sa[b] = Math.Clamp((mo[i].Speed - _sv[b]) / (_lookoutEvery * Dt), -2, 2);
-                _sx[b] = pose[i].X; _sy[b] = pose[i].Y; _sh[b] = pose[i].Heading; _st[b] = Math.Atan2(mo[i].TrackSin, mo[i].TrackCos); _sv[b] = mo[i].Speed; _sFrom[b] = sw[i].TrueFromDeg;
+                _sx[b] = pose[i].X; _sy[b] = pose[i].Y; _sh[b] = pose[i].Heading; _st[b] = Math.Atan2(mo[i].TrackSin, mo[i].TrackCos); _sv[b] = mo[i].Speed; _sFrom[b] = sw[i].TrueFromDeg; _sTws[b] = sw[i].TrueSpeed;
                 ref readonly var m = ref man[i];
                 // Appendix B, rule 13 as changed: from passing head to wind until the sail has filled (the crossing,
                 // and the first second of sheeting in on the new tack).
@@ -385,29 +395,39 @@ public sealed partial class Race
         double bestScore = double.PositiveInfinity, bestH = baseH, bestP = 1;
         // Besides fixed turns either way, the duck: the track that passes astern of the nearest threat, led for its
         // motion (aim at a point a length and a clearance behind its stern, where it will be when the rider gets there).
-        Span<double> offsets = stackalloc double[18];
+        Span<double> offsets = stackalloc double[19];
         ReadOnlySpan<double> fixedOffsets = [0, 10, -10, 20, -20, 30, -30, 45, -45, 60, -60, 80, -80, 100, -100, 120, -120];
         fixedOffsets.CopyTo(offsets);
         offsets[17] = Unit.RadToDeg(Unit.WrapRadPi(DuckTrack(k, _threats[0], va) - baseH));
         // On a run (and not already putting off a turn) a gybe away is a candidate too, vetted against every board in
         // sight, not only the threats of the present gybe: it must not sail into another (RRS 15, 16).
-        bool mayGybe = !turning && Math.Abs(SignedAngle(from, cur)) >= Unit.DegToRad(GybeAwayMinTwaDeg);
+        double twaCur = Math.Abs(SignedAngle(from, cur));
+        // Neither a gybe away nor a tack away is begun with another board close.
+        bool roomToTurn = !turning && _nearestM[k] > TurnAwayMinM;
+        bool mayGybe = roomToTurn && twaCur >= Unit.DegToRad(GybeAwayMinTwaDeg);
+        // Beating, a tack away: onto the best VMG angle of the other tack (RRS 13, 15, 16).
+        bool mayTack = roomToTurn && twaCur <= Unit.DegToRad(TackAwayMaxTwaDeg);
+        offsets[18] = mayTack ? Unit.RadToDeg(Unit.WrapRadPi(Unit.DegToRad(from) + side * _rigs[k].BestTwa(_sTws[k], true) - baseH)) : double.NaN;
         for (int slow = 0; slow < 2; slow++)
             for (int oi = 0; oi < offsets.Length; oi++)
             {
                 double off = offsets[oi];
+                if (double.IsNaN(off)) continue;
                 double h = Unit.WrapRadPi(baseH + Unit.DegToRad(off));
                 double twa = SignedAngle(from, h);
-                bool gybe = Math.Sign(twa) != side;
-                if (gybe && !(mayGybe && slow == 0 && Math.Abs(twa) >= Unit.DegToRad(GybeAwayMinTwaDeg))) continue;
-                if (Math.Abs(twa) < Unit.DegToRad(AvoidMinTwaDeg) || !gybe && Math.Abs(twa) > Unit.DegToRad(178)) continue;
+                bool other = Math.Sign(twa) != side;
+                bool gybe = other && mayGybe && Math.Abs(twa) >= Unit.DegToRad(GybeAwayMinTwaDeg);
+                bool tack = other && mayTack && oi == 18;
+                if (other && !(slow == 0 && (gybe || tack))) continue;
+                if (Math.Abs(twa) < Unit.DegToRad(AvoidMinTwaDeg) || !other && Math.Abs(twa) > Unit.DegToRad(178)) continue;
                 // Luffing, a board coasts to a stop over a few seconds (mean speed over the next three seconds about 60 %
                 // of the present one); sheeting out on a run hardly slows it (model values).
-                double v = gybe ? GybeAwaySpeedShare * va : slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.6 : 0.85) * _sv[k] : va;
+                double v = tack ? TackAwaySpeedShare * va : gybe ? GybeAwaySpeedShare * va : slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.6 : 0.85) * _sv[k] : va;
                 double worst = double.PositiveInfinity;
-                if (gybe) for (int q = _adjStart[k]; q < _adjStart[k + 1]; q++) worst = Math.Min(worst, PredictedHullGap(k, h, v, _adj[q]) - PassClear(k, h, v, _adj[q]));
+                if (other) for (int q = _adjStart[k]; q < _adjStart[k + 1]; q++) worst = Math.Min(worst, PredictedHullGap(k, h, v, _adj[q]) - PassClear(k, h, v, _adj[q]));
                 else foreach (int j in _threats) worst = Math.Min(worst, PredictedHullGap(k, h, v, j) - PassClear(k, h, v, j));
-                double score = Math.Abs(off) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);
+                double score = (tack ? 0 : Math.Abs(off)) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (tack ? TackAwayCharge : 0)
+                             + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);
                 if (_avoidOn[k] && (slow == 1) == (_avoidP[k] == 0) && Math.Abs(Unit.WrapRadPi(h - _avoidH[k])) < Unit.DegToRad(6)) score -= 15;
                 if (score < bestScore) { bestScore = score; bestH = h; bestP = slow == 1 ? 0 : 1; }
             }

@@ -108,13 +108,13 @@ public class EncounterTests
     [Fact]
     public void RunningOnOppositeGybes_PortKeepsClear_Rule10()
     {
-        // Both running, converging at 25 deg on opposite gybes towards the same point, starboard slightly faster: the
-        // port board can neither luff far enough nor slow on a run, so it gybes away (or turns clear) and no contact.
+        // Both running, converging at 35 deg on opposite gybes towards the same point, starboard slightly faster: the
+        // port board can hardly slow on a run, and gybing away is its cheapest way clear: it gybes, and no contact.
         Race Make(bool gw)
         {
-            var race = Build(Board("s", "test-hold", "twa_deg = 160") + Board("p", "test-hold", "twa_deg = -175"), gw);
-            Toward(race, 0, 160, 0, 0, 10);
-            Toward(race, 1, -175, 0, 0, 10);
+            var race = Build(Board("s", "test-hold", "twa_deg = 150") + Board("p", "test-hold", "twa_deg = -175"), gw);
+            Toward(race, 0, 150, 0, 0, 14);
+            Toward(race, 1, -175, 0, 0, 14);
             return race;
         }
         var (r, turn) = Sail(Make(true), 30);
@@ -128,6 +128,32 @@ public class EncounterTests
         var inc = Assert.Single(rb.Incidents);
         Assert.Equal("10", inc.Rule);
         Assert.Equal(1, inc.KeepClear);
+    }
+
+    [Fact]
+    public void PortMeetsAStarboardPair_PortTacksAway_Rule10()
+    {
+        // A port board beating meets two starboard boards abreast, 12 m apart: ducking both means
+        // bearing away far, so it tacks away onto starboard (RRS 10; then 13 and 15: it keeps clear while tacking).
+        Race Make(bool gw)
+        {
+            var race = Build(Board("s1", "test-hold", "twa_deg = 45") + Board("s2", "test-hold", "twa_deg = 45") + Board("p", "test-hold", "twa_deg = -45"), gw);
+            Toward(race, 0, 45, 0, 0, 12);
+            Toward(race, 1, 45, -8.5, -8.5, 12); // abreast, 12 m to leeward
+            Toward(race, 2, -45, 0, 0, 12.5);
+            return race;
+        }
+        var (r, turn) = Sail(Make(true), 40);
+        Assert.Empty(r.Incidents);
+        Assert.Contains(GiveWays(r, 2), e => e.Detail.Contains("rule 10"));
+        Assert.True(turn[0] < 6 && turn[1] < 6, $"starboard boards held their course (turned {turn[0]:F1} and {turn[1]:F1} deg): {string.Join("; ", r.Events.Select(e => $"{e.TimeS:F1} b{e.Board} {e.Kind} {e.Detail}"))}");
+        // It tacked away before the crossing (they meet at 0 s), once it had seen the pair.
+        var first = r.Events.FirstOrDefault(e => e.Board == 2 && e.Kind == RaceEventKind.Tack);
+        Assert.True(first.Kind == RaceEventKind.Tack && first.TimeS < -5, $"the port board tacked away: {string.Join("; ", r.Events.Where(e => e.Board == 2).Select(e => $"{e.TimeS:F1} {e.Kind} {e.Detail}"))}");
+
+        var (rb, _) = Sail(Make(false), 40);
+        Assert.NotEmpty(rb.Incidents);
+        Assert.All(rb.Incidents, i => Assert.Equal(2, i.KeepClear));
     }
 
     [Fact]
