@@ -107,8 +107,7 @@ public sealed partial class Race
     /// both tracks ahead (closest point of approach at present speeds, the rider on the heading they want): a conflict
     /// with a board they must keep clear of (rules 10-13, 18 as changed by Appendix B) makes them act, after their
     /// reaction time, by the least change that clears it (bear away to duck, head up, slow down, tack or gybe away, or
-    /// put off a tack); a
-    /// right-of-way rider holds course unless contact is imminent (rule 14). Every step the pairs that are close are
+    /// put off a tack); a right-of-way rider holds course unless contact is imminent (rule 14). Every step the pairs that are close are
     /// checked for contact, which is judged and penalised.
     /// </summary>
     void RulesLookout()
@@ -336,19 +335,20 @@ public sealed partial class Race
         for (int q = _adjStart[k]; q < _adjStart[k + 1]; q++)
         {
             int j = _adj[q];
+            long key = PairKey(k, j);
             var (t, d) = Cpa(k, h, v, j);
             // Faster closing, wider berth (the same rule of thumb as the passing gap).
             double m = margin + ConflictPerMs * ClosingSpeed(k, h, v, j);
             if (d >= m || t >= LookaheadS)
             {
                 // No conflict: forget one this rider had foreseen as theirs (the verdict is only needed then).
-                if (!turning && _foreseen.ContainsKey(PairKey(k, j)) && Judge(k, h, j).KeepClear == k) _foreseen.Remove(PairKey(k, j));
+                if (!turning && _foreseen.ContainsKey(key) && Judge(k, h, j).KeepClear == k) _foreseen.Remove(key);
                 continue;
             }
             var (keep, rule) = Judge(k, h, j);
             bool mine = keep == k || turning && keep >= 0;
             bool lastMoment = keep == j && t < LastMomentS && !(_avoidOn[j] && Time >= _avoidAt[j]);
-            if (keep == k && (!_foreseen.TryGetValue(PairKey(k, j), out var seen) || seen.Rule != rule)) _foreseen[PairKey(k, j)] = (Time, k, rule, _sh[j]);
+            if (keep == k && (!_foreseen.TryGetValue(key, out var seen) || seen.Rule != rule)) _foreseen[key] = (Time, k, rule, _sh[j]);
             if (!mine && !lastMoment) continue;
             _threats.Add(j);
             if (firstOther < 0) { firstOther = j; firstRule = keep == k ? rule : turning ? "16" : "14"; }
@@ -399,15 +399,14 @@ public sealed partial class Race
         ReadOnlySpan<double> fixedOffsets = [0, 10, -10, 20, -20, 30, -30, 45, -45, 60, -60, 80, -80, 100, -100, 120, -120];
         fixedOffsets.CopyTo(offsets);
         offsets[17] = Unit.RadToDeg(Unit.WrapRadPi(DuckTrack(k, _threats[0], va) - baseH));
-        // On a run (and not already putting off a turn) a gybe away is a candidate too, vetted against every board in
-        // sight, not only the threats of the present gybe: it must not sail into another (RRS 15, 16).
+        // A change of tack is a candidate too, unless a turn is already being put off or another board is close: on a
+        // run a gybe away (any offset onto the other gybe deep enough), on a beat a tack away onto the other tack's best
+        // VMG angle (slot 18). Either is vetted against every board in sight, not only the present threats (RRS 13, 15, 16).
         double twaCur = Math.Abs(SignedAngle(from, cur));
-        // Neither a gybe away nor a tack away is begun with another board close.
         bool roomToTurn = !turning && _nearestM[k] > TurnAwayMinM;
         bool mayGybe = roomToTurn && twaCur >= Unit.DegToRad(GybeAwayMinTwaDeg);
-        // Beating, a tack away: onto the best VMG angle of the other tack (RRS 13, 15, 16).
         bool mayTack = roomToTurn && twaCur <= Unit.DegToRad(TackAwayMaxTwaDeg);
-        offsets[18] = mayTack ? Unit.RadToDeg(Unit.WrapRadPi(Unit.DegToRad(from) + side * _rigs[k].BestTwa(_sTws[k], true) - baseH)) : double.NaN;
+        offsets[18] = mayTack ? Unit.RadToDeg(Unit.WrapRadPi(CloseHauledOtherTack(k, from, side, _sTws[k]) - baseH)) : double.NaN;
         for (int slow = 0; slow < 2; slow++)
             for (int oi = 0; oi < offsets.Length; oi++)
             {

@@ -323,10 +323,13 @@ public sealed partial class Race
         if (correct) return heading;
         double twa = Math.Abs(SignedAngle(fromDeg, heading));
         int side = Math.Sign(SignedAngle(fromDeg, heading)); if (side == 0) side = tack;
-        var rig = _rigs[b];
         // Beating only: running, the rider already steers straight at the aim point within CloseRunM of it.
-        return twa < Unit.DegToRad(75) ? Unit.WrapRadPi(Unit.DegToRad(fromDeg) + side * rig.BestTwa(tws, true)) : heading;
+        return twa < Unit.DegToRad(75) ? CloseHauledOtherTack(b, fromDeg, side, tws) : heading;
     }
+
+    /// <summary>The heading (rad) at board b's best upwind VMG angle on the tack other than <paramref name="side"/> (+1 starboard).</summary>
+    double CloseHauledOtherTack(int b, double fromDeg, int side, double tws) =>
+        Unit.WrapRadPi(Unit.DegToRad(fromDeg) + side * _rigs[b].BestTwa(tws, true));
 
     /// <summary>
     /// Where a rider aims for step i. A mark is approached by an entry point beside it on the side it is to be left
