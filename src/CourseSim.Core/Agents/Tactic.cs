@@ -1,5 +1,5 @@
 using CourseSim.Courses;
-using CourseSim.Engine;
+using CourseSim.Equilibrium;
 
 namespace CourseSim.Agents;
 

@@ -3,83 +3,6 @@ using CourseSim.Units;
 
 namespace CourseSim.Agents;
 
-/// <summary>
-/// The tactics a scenario can name (docs/tactics.md): the built-in ones and any registered by code. Names are unique;
-/// registering a name twice replaces the earlier one (so a test or plug-in can redefine its own tactic).
-/// </summary>
-public static class TacticRegistry
-{
-    static readonly object Gate = new();
-    static readonly Dictionary<string, TacticSpec> Specs = new(StringComparer.Ordinal);
-
-    static TacticRegistry()
-    {
-        foreach (var s in BuiltInTactics.All) Specs[s.Name] = s;
-    }
-
-    /// <summary>Adds a tactic (a user's own, written in C#): afterwards scenarios can name it.</summary>
-    public static void Register(TacticSpec spec)
-    {
-        ArgumentNullException.ThrowIfNull(spec);
-        if (string.IsNullOrWhiteSpace(spec.Name) || spec.Name.Any(char.IsWhiteSpace)) throw new ArgumentException("a tactic name is one word, such as \"my-tactic\"");
-        if (spec.Params.Select(p => p.Name).Distinct().Count() != spec.Params.Count) throw new ArgumentException($"tactic '{spec.Name}' names a parameter twice");
-        foreach (var p in spec.Params)
-            if (!(p.Min <= p.Default && p.Default <= p.Max)) throw new ArgumentException($"tactic '{spec.Name}': default of '{p.Name}' is outside {p.Min}..{p.Max}");
-        lock (Gate) Specs[spec.Name] = spec;
-    }
-
-    public static bool TryGet(string name, out TacticSpec spec) { lock (Gate) return Specs.TryGetValue(name, out spec!); }
-
-    /// <summary>
-    /// Registers the tactics of a compiled assembly (a class library built against CourseSim.Core): every public static
-    /// property or field of type <see cref="TacticSpec"/> on its public types. Returns their names. Loading the same
-    /// file again is harmless; a name that is a built-in tactic, or one another assembly already gave, is an error.
-    /// </summary>
-    public static IReadOnlyList<string> LoadAssembly(string path)
-    {
-        string full = System.IO.Path.GetFullPath(path);
-        if (!File.Exists(full)) throw new TacticLoadException($"tactic assembly '{path}' not found (looked for {full})");
-        System.Reflection.Assembly asm;
-        try { asm = System.Reflection.Assembly.LoadFrom(full); }
-        catch (BadImageFormatException) { throw new TacticLoadException($"'{path}' is not a .NET assembly (build your tactics as a class library: docs/tactics.md)"); }
-        catch (FileLoadException e) { throw new TacticLoadException($"'{path}' could not be loaded: {e.Message}"); }
-        var found = new List<TacticSpec>();
-        Type[] types;
-        try { types = asm.GetExportedTypes(); }
-        catch (Exception e) when (e is System.Reflection.ReflectionTypeLoadException or FileNotFoundException or FileLoadException)
-        {
-            throw new TacticLoadException($"'{path}' needs an assembly that cannot be found or loaded ({e.Message}); build it against this CourseSim.Core");
-        }
-        const System.Reflection.BindingFlags Flags = System.Reflection.BindingFlags.Public | System.Reflection.BindingFlags.Static;
-        foreach (var t in types)
-        {
-            foreach (var p in t.GetProperties(Flags))
-                if (p.PropertyType == typeof(TacticSpec) && p.GetIndexParameters().Length == 0 && p.GetValue(null) is TacticSpec s) found.Add(s);
-            foreach (var fld in t.GetFields(Flags))
-                if (fld.FieldType == typeof(TacticSpec) && fld.GetValue(null) is TacticSpec s) found.Add(s);
-        }
-        if (found.Count == 0) throw new TacticLoadException($"'{path}' has no tactic: expose one as a public static TacticSpec property on a public class (docs/examples/LullTackTactic.cs)");
-        var names = new List<string>();
-        foreach (var s in found.DistinctBy(s => s.Name))
-        {
-            if (BuiltInTactics.All.Any(b => b.Name == s.Name)) throw new TacticLoadException($"'{path}': tactic '{s.Name}' has the name of a built-in tactic; choose another");
-            lock (Gate)
-                if (Specs.TryGetValue(s.Name, out var had) && !ReferenceEquals(had, s) && had.Create.Method.Module != s.Create.Method.Module)
-                    throw new TacticLoadException($"'{path}': tactic '{s.Name}' is already given by another assembly ({had.Create.Method.Module.Assembly.Location})");
-            try { Register(s); }
-            catch (ArgumentException e) { throw new TacticLoadException($"'{path}': {e.Message}"); }
-            names.Add(s.Name);
-        }
-        return names;
-    }
-
-    /// <summary>Known names, sorted.</summary>
-    public static IReadOnlyList<string> Names { get { lock (Gate) return Specs.Keys.Order(StringComparer.Ordinal).ToArray(); } }
-
-    public static IReadOnlyList<TacticSpec> All { get { lock (Gate) return Specs.Values.OrderBy(s => s.Name, StringComparer.Ordinal).ToArray(); } }
-}
-
-/// <summary>A tactic assembly that cannot be used: what is wrong, in words for the user.</summary>
 public sealed class TacticLoadException(string message) : Exception(message);
 
 /// <summary>The built-in tactics. Each one's parameters are what a coach would tune; defaults are model values.</summary>
@@ -130,7 +53,7 @@ public static class BuiltInTactics
     /// <summary>Layline sailing to the aim point, turning no sooner than the engine's least time between turns: the
     /// course the tactics below fall back on.</summary>
     public static double ToMark(Observation o, INavigator nav) =>
-        nav.ToTarget(o.AimPoint, o.TimeS - o.LastTurnS >= CourseSim.Engine.Race.MinTimeBetweenTurnsS);
+        nav.ToTarget(o.AimPoint, o.TimeS - o.LastTurnS >= Navigation.MinTimeBetweenTurnsS);
 
     /// <summary>The heading on the other tack or gybe at the best VMG angle of this leg.</summary>
     public static double Turn(Observation o, INavigator nav) =>

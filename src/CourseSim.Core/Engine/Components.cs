@@ -1,7 +1,9 @@
 namespace CourseSim.Engine;
 
-// The board's components: plain structs, stored densely by the entity store. Hot data (what the step touches every
-// 50 ms) is here; names, splits and recorded tracks live in the race's cold arrays, indexed by BoardId.
+// The board's components: plain unmanaged structs, stored densely by the entity store (so a checkpoint copies them as
+// bytes and a state hash reads them as bytes). Hot data, touched every step by the physics, comes first; the agent's
+// and the rules' state (touched at the decision and lookout rates) after it. Names, rigs, hull lengths and other
+// constants of a board live once in the race's Fleet, indexed by BoardId.
 
 /// <summary>Index of the board in the race's fleet arrays (names, equipment, splits, records).</summary>
 public struct BoardId { public int Value; }
@@ -14,9 +16,6 @@ public struct Pose { public double X, Y, Heading; }
 /// and the sine and cosine of the track direction (kept by the integrator, read by the force system).
 /// </summary>
 public struct Motion { public double Speed, Leeway, YawRate, Distance, TrackSin, TrackCos; }
-
-/// <summary>Which resolved set-up (rig tables and polar) this board sails.</summary>
-public struct RigRef { public int Index; }
 
 /// <summary>The wind at the rig: true (10 m speed, from-direction deg) with other boards' shadows, and as the rider perceives it (lagged, noisy).</summary>
 public struct SensedWind
@@ -77,3 +76,40 @@ public struct RaceStatus
     public int Tacks, Gybes, Falls, WrongSide;
     public double StartedS, FinishedS;
 }
+
+/// <summary>
+/// The rider's helm: the decision in force (want: heading rad, power 0..1, target speed m/s), one made but still within
+/// the rider's reaction time (pending, acted on at PendAt s; +infinity when none), and the heading the plan steers
+/// before any give-way (Planned). HoldTwaDeg pins the board to a true wind angle (NaN: free), for the engine's polar checks.
+/// </summary>
+public struct Helm
+{
+    public double WantH, WantP, WantV, PendH, PendP, PendV, PendAt, PlannedH, HoldTwaDeg;
+    public readonly bool HasPending => !double.IsPositiveInfinity(PendAt);
+    public readonly bool Pinned => !double.IsNaN(HoldTwaDeg);
+}
+
+/// <summary>
+/// What the rider reads of the wind for deciding: the slowly varying error of their reading (standard normal states of
+/// two Ornstein-Uhlenbeck processes, direction and speed), the reading itself (deg, m/s) and the time of their last tack
+/// or gybe (s).
+/// </summary>
+public struct Perception { public double NoiseDir, NoiseSpeed, ReadFromDeg, ReadSpeed, LastTurnS; }
+
+/// <summary>The start plan: the spot on the line (m), the waiting point below it (m), the planned arrival after the signal (s), and its phase.</summary>
+public struct StartPlan { public double SpotX, SpotY, WaitX, WaitY, GoMarginS; public bool Holding, Going; }
+
+/// <summary>
+/// Keeping clear (the rules' lookout): whether the rider is giving way, to which board, under which rule (a code of
+/// <c>Rules.RuleCodes</c>), from when (s, after their reaction time), on which heading (rad) and power.
+/// </summary>
+public struct GiveWay { public bool On; public int Other; public byte Rule; public double AtS, Heading, Power; public int Episodes; }
+
+/// <summary>One-turn penalties: owed, taken, and the stage of the one being served (0 none, 1-4) with its turning sign.</summary>
+public struct Penalty { public int Owed, Taken, Stage, Sign; }
+
+/// <summary>
+/// Book-keeping of the board's own past: where it was at the last step (m, for line and rounding crossings), when it last
+/// began a tack or gybe and how near the nearest board was then (for the judge's "begun too close").
+/// </summary>
+public struct Wake { public double PrevX, PrevY, TurnStartS, TurnStartNearestM; }

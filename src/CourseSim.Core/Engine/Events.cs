@@ -1,5 +1,13 @@
 namespace CourseSim.Engine;
 
+/// <summary>
+/// An incident: two boards in contact. Who was to keep clear (-1 when nobody was, as with a capsized board), the rule,
+/// whether a penalty was given, and whether the keep-clear board's give-way logic could have avoided it (it had seen
+/// the conflict in time, was free to act, and the right-of-way board held its course).
+/// </summary>
+public sealed record RaceIncident(double TimeS, double X, double Y, int KeepClear, int RightOfWay, string Rule, bool Penalty,
+    bool Avoidable, string Detail);
+
 public enum RaceEventKind : byte { Started, Ocs, Cleared, Rounded, WrongSide, Tack, Gybe, Fall, Finished, NotFinished, GiveWay, Contact, PenaltyServed }
 
 /// <summary>Something that happened in the race: when (s from the signal), where, to which board, and a detail.</summary>

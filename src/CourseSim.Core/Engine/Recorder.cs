@@ -10,8 +10,9 @@ public struct BoardSample
 }
 
 /// <summary>
-/// Samples of every board at a fixed interval (the replay's frames), held in one growing array of structs: frame k is
-/// at <see cref="StartS"/> + k x <see cref="IntervalS"/>, board b at index k x boards + b.
+/// Samples of every board at a fixed interval (the replay's frames), held in one array of structs sized up front for the
+/// expected race (it grows, by doubling, only if the race runs past that): frame k is at <see cref="StartS"/> +
+/// k x <see cref="IntervalS"/>, board b at index k x boards + b.
 /// </summary>
 public sealed class Recorder
 {
@@ -21,11 +22,22 @@ public sealed class Recorder
     public double IntervalS { get; }
     public double StartS { get; }
 
-    public Recorder(int boards, double intervalS, double startS)
+    public Recorder(int boards, double intervalS, double startS, int framesExpected = 256)
     {
         Boards = boards; IntervalS = intervalS; StartS = startS;
-        _data = new BoardSample[Math.Max(1, boards) * 256];
+        _data = new BoardSample[Math.Max(1, boards) * Math.Max(16, framesExpected)];
     }
+
+    /// <summary>A deep copy (for a checkpoint).</summary>
+    public Recorder Copy()
+    {
+        var r = new Recorder(Boards, IntervalS, StartS, 16) { Frames = Frames };
+        r._data = (BoardSample[])_data.Clone();
+        return r;
+    }
+
+    /// <summary>The recorded samples as bytes (for a state hash).</summary>
+    public ReadOnlySpan<byte> Bytes => System.Runtime.InteropServices.MemoryMarshal.AsBytes(new ReadOnlySpan<BoardSample>(_data, 0, Frames * Boards));
 
     public static int BytesPerSample => System.Runtime.CompilerServices.Unsafe.SizeOf<BoardSample>();
     public long MemoryBytes => (long)_data.Length * BytesPerSample;

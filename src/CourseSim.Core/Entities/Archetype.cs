@@ -7,6 +7,9 @@ internal abstract class Column
     public abstract void Move(int from, int to);
     public abstract void CopyTo(int row, Column dst, int dstRow);
     public abstract Type Type { get; }
+    public abstract Column Copy();
+    /// <summary>The first <paramref name="rows"/> rows as bytes (components are unmanaged structs).</summary>
+    public abstract ReadOnlySpan<byte> Bytes(int rows);
 }
 
 internal sealed class Column<T> : Column where T : struct
@@ -16,6 +19,13 @@ internal sealed class Column<T> : Column where T : struct
     public override void Grow(int capacity) => Array.Resize(ref Data, capacity);
     public override void Move(int from, int to) => Data[to] = Data[from];
     public override void CopyTo(int row, Column dst, int dstRow) => ((Column<T>)dst).Data[dstRow] = Data[row];
+    public override Column Copy() => new Column<T> { Data = (T[])Data.Clone() };
+    public override ReadOnlySpan<byte> Bytes(int rows)
+    {
+        if (System.Runtime.CompilerServices.RuntimeHelpers.IsReferenceOrContainsReferences<T>())
+            throw new EntityException($"{typeof(T).Name} holds references: components must be plain unmanaged structs");
+        return System.Runtime.InteropServices.MemoryMarshal.AsBytes(new ReadOnlySpan<T>(Data, 0, rows));
+    }
 }
 
 /// <summary>
@@ -47,6 +57,18 @@ public sealed class Archetype
     }
 
     internal int ColumnOf(int type) => _columnOf[type];
+
+    Archetype(Archetype o)
+    {
+        Signature = o.Signature;
+        _columnOf = o._columnOf;
+        Columns = o.Columns.Select(c => c.Copy()).ToArray();
+        Entities = (Entity[])o.Entities.Clone();
+        Count = o.Count;
+    }
+
+    /// <summary>A deep copy (for a world's checkpoint).</summary>
+    internal Archetype Copy() => new(this);
 
     internal int AddRow(Entity e)
     {

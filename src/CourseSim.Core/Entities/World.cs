@@ -21,8 +21,9 @@ public sealed class World
     internal int Iterating;
 
     public int Count { get; private set; }
-    /// <summary>Grows whenever a new archetype appears, so queries know to refresh their match list.</summary>
-    internal int ArchetypeVersion => _archetypes.Count;
+    /// <summary>Changes whenever a new archetype appears or the world is restored, so queries know to refresh their match list.</summary>
+    internal int ArchetypeVersion => _archetypes.Count + (_restores << 16);
+    int _restores;
     internal IReadOnlyList<Archetype> Archetypes => _archetypes;
 
     /// <summary>The world-local id of a component type (registered on first use; at most 64 types per world).</summary>
@@ -61,6 +62,55 @@ public sealed class World
     }
 
     public Query Query() => new(this);
+
+    /// <summary>A deep copy of every entity and component: a checkpoint of the world.</summary>
+    public World Clone()
+    {
+        var w = new World();
+        w.CopyFrom(this);
+        return w;
+    }
+
+    /// <summary>
+    /// Makes this world a deep copy of <paramref name="src"/> (same entities, handles, components and iteration order).
+    /// Queries made on this world stay valid and see the copied entities.
+    /// </summary>
+    public void CopyFrom(World src)
+    {
+        if (Iterating > 0 || src.Iterating > 0) throw new EntityException("a world cannot be copied while a query is iterating");
+        _typeIds.Clear(); foreach (var kv in src._typeIds) _typeIds[kv.Key] = kv.Value;
+        _types.Clear(); _types.AddRange(src._types);
+        _localByGlobal = (int[])src._localByGlobal.Clone();
+        var map = new Dictionary<Archetype, Archetype>();
+        _archetypes.Clear(); _bySignature.Clear();
+        foreach (var a in src._archetypes)
+        {
+            var c = a.Copy();
+            map[a] = c;
+            _archetypes.Add(c);
+            _bySignature[c.Signature.Bits] = c;
+        }
+        _slots = (Slot[])src._slots.Clone();
+        for (int i = 0; i < _slots.Length; i++)
+            if (_slots[i].Archetype is { } a) _slots[i].Archetype = map[a];
+        _slotCount = src._slotCount;
+        _free.Clear(); foreach (int f in src._free) _free.Enqueue(f);
+        Count = src.Count;
+        _restores = Math.Max(_restores, src._restores) + 1;
+    }
+
+    /// <summary>
+    /// Feeds every component of every entity, archetype by archetype in creation order, to <paramref name="sink"/> as
+    /// bytes (for a state hash).
+    /// </summary>
+    public void WriteState(Action<ReadOnlySpan<byte>> sink)
+    {
+        foreach (var a in _archetypes)
+        {
+            sink(System.Runtime.InteropServices.MemoryMarshal.AsBytes(new ReadOnlySpan<Entity>(a.Entities, 0, a.Count)));
+            foreach (var c in a.Columns) sink(c.Bytes(a.Count));
+        }
+    }
 
     public bool IsAlive(Entity e) => e.Id >= 0 && e.Id < _slotCount && _slots[e.Id].Generation == e.Generation && _slots[e.Id].Archetype is not null;
 

@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Text;
 using CourseSim.Engine;
+using CourseSim.Simulation;
 
 namespace CourseSim.Experiments;
 
@@ -105,6 +106,8 @@ public static class BatchRunner
         int resumed = jobs.Count - todo.Count, done = resumed;
         progress?.Invoke(new BatchProgress(done, jobs.Count, resumed));
         var options = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads), CancellationToken = cancel };
+        // One cache of rig tables for the whole batch: a set-up's tables do not depend on the seed.
+        var rigs = new Equilibrium.RigCache();
         try
         {
             Parallel.ForEach(todo, options, job =>
@@ -113,7 +116,7 @@ public static class BatchRunner
                 var setup = job.V.Setup with { Race = job.V.Setup.Race with { Seed = seed } };
                 double wind = spec.WindFor(job.Race);
                 if (!double.IsNaN(wind)) setup = setup with { Wind = setup.Wind with { SpeedKn = wind } };
-                var race = new Race(setup);
+                var race = new Race(setup, rigs.For);
                 var result = race.Run();
                 var metrics = RaceMetrics.Of(race, result);
                 var sb = new StringBuilder();

@@ -1,4 +1,5 @@
 using CourseSim.Engine;
+using CourseSim.Simulation;
 using CourseSim.Random;
 using CourseSim.Settings;
 

@@ -1,6 +1,7 @@
 using System.Globalization;
 using CourseSim.Courses;
 using CourseSim.Engine;
+using CourseSim.Simulation;
 using CourseSim.Units;
 
 namespace CourseSim.Experiments;

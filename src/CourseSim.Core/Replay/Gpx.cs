@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Text;
 using System.Xml;
 using CourseSim.Engine;
+using CourseSim.Simulation;
 
 namespace CourseSim.Replay;
 

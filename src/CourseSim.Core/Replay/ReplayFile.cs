@@ -3,6 +3,7 @@ using System.Buffers.Binary;
 using System.Security.Cryptography;
 using CourseSim.Courses;
 using CourseSim.Engine;
+using CourseSim.Simulation;
 using MessagePack;
 
 namespace CourseSim.Replay;

@@ -13,7 +13,14 @@ namespace CourseSim.Tests.Agents;
 /// </summary>
 public class UserTacticTests
 {
-    static UserTacticTests() => TacticRegistry.Register(LullTackTactic.Spec);
+    static readonly TacticRegistry Tactics = MakeTactics();
+
+    static TacticRegistry MakeTactics()
+    {
+        var r = new TacticRegistry();
+        r.Register(LullTackTactic.Spec);
+        return r;
+    }
 
     static string Scenario(string tactic, string prm, double gust) =>
         $"[wind]\nspeed_kn = 14\ndirection_deg = 0\nshift_amplitude_deg = 0\ngust_intensity = {gust}\ngust_length_m = 200\nshadows = false\n" +
@@ -24,17 +31,18 @@ public class UserTacticTests
     [Fact]
     public void ARegisteredTacticIsNamedInAScenarioValidatedAndSailed()
     {
-        Assert.Contains("lull-tack", TacticRegistry.Names);
-        var gusty = new Race(EngineTestKit.Parse(Scenario("lull-tack", "lull_kn = 1.5\nmin_tack_s = 20", 0.15))).Run();
+        Assert.Contains("lull-tack", Tactics.Names);
+        Assert.DoesNotContain("lull-tack", new TacticRegistry().Names); // registries are instances: nothing leaks between them
+        var gusty = new Race(EngineTestKit.Parse(Scenario("lull-tack", "lull_kn = 1.5\nmin_tack_s = 20", 0.15), tactics: Tactics), tactics: Tactics).Run();
         var plain = new Race(EngineTestKit.Parse(Scenario("vmg-layline", "", 0.15))).Run();
         Assert.True(gusty.Boards[0].Finished && plain.Boards[0].Finished);
         // In gusty wind it tacks in the lulls: more tacks than sailing to the laylines.
         Assert.True(gusty.Boards[0].Tacks > plain.Boards[0].Tacks + 1, $"lull-tack {gusty.Boards[0].Tacks} tacks, vmg-layline {plain.Boards[0].Tacks}");
         // Its parameters are checked like any tactic's: unknown names list the known ones; values outside the range say so.
-        var e = Assert.Throws<SettingsException>(() => EngineTestKit.Parse(Scenario("lull-tack", "lul_kn = 2", 0)));
+        var e = Assert.Throws<SettingsException>(() => EngineTestKit.Parse(Scenario("lull-tack", "lul_kn = 2", 0), tactics: Tactics));
         Assert.Contains("lull_kn, min_tack_s", e.Message);
         Assert.True(e.Line > 0);
-        var r = Assert.Throws<SettingsException>(() => EngineTestKit.Parse(Scenario("lull-tack", "lull_kn = 20", 0)));
+        var r = Assert.Throws<SettingsException>(() => EngineTestKit.Parse(Scenario("lull-tack", "lull_kn = 20", 0), tactics: Tactics));
         Assert.Contains("accepted 0.5 to 10", r.Message);
     }
 

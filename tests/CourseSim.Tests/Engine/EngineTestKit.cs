@@ -18,8 +18,8 @@ public static class EngineTestKit
               "[course]\nkind = \"waypoints\"\norder = \"far\"\n[course.marks.far]\nx_m = 0\ny_m = 40000\n" +
               $"[boards.a]\nequipment = \"{Equip(equipment)}\"\n");
 
-    public static RaceSetup Parse(string toml, ulong? seed = null) =>
-        ScenarioFile.FromSettings(SettingsFile.Parse(toml, "test.toml", ScenarioFile.Schema), seed);
+    public static RaceSetup Parse(string toml, ulong? seed = null, CourseSim.Agents.TacticRegistry? tactics = null) =>
+        ScenarioFile.FromSettings(SettingsFile.Parse(toml, "test.toml", ScenarioFile.Schema), seed, tactics);
 
     public static RaceSetup Demo(IEnumerable<string>? sets = null, ulong? seed = null) =>
         ScenarioFile.LoadRace(Path.Combine(RepoRoot.Path, "scenarios", "korrin-bay-race.toml"), sets, seed);

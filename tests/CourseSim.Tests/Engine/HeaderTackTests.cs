@@ -66,7 +66,7 @@ public class HeaderTackTests(Xunit.Abstractions.ITestOutputHelper output)
     public void TheGainOfTackingOnHeadersMatchesTheAnalyticPrediction()
     {
         var setup = EngineTestKit.OpenWater(Kn, "light-66.toml");
-        var rig = RigPolar.For(setup.Boards[0].Equipment);
+        var rig = CourseSim.Equilibrium.RigPolar.Build(setup.Boards[0].Equipment);
         double tws = Unit.KnotsToMs(Kn), beta = rig.BestTwa(tws, true), v = rig.Speed(tws, beta);
         double w = v * Math.Cos(beta), a = Unit.DegToRad(AmplitudeDeg), pe = PeriodS / (1 + w / tws);
         double delay = Tuning.PerceptionLagS + Tuning.Lerp(Tuning.ReactionExpertS, Tuning.ReactionNoviceS, setup.Boards[0].Equipment.Rider.Skill) + 0.25;

@@ -17,7 +17,7 @@ public class ManoeuvreTests
     static (double LossS, double MinSpeedShare, int Tacks, int Gybes) Loss(string equipment, double kn, bool upwind)
     {
         var baseSetup = EngineTestKit.OpenWater(kn, equipment);
-        var rig = RigPolar.For(baseSetup.Boards[0].Equipment);
+        var rig = CourseSim.Equilibrium.RigPolar.Build(baseSetup.Boards[0].Equipment);
         double twa = Unit.RadToDeg(rig.BestTwa(Unit.KnotsToMs(kn), upwind));
         double v0 = rig.Speed(Unit.KnotsToMs(kn), Unit.DegToRad(twa));
         // The turned board runs until the manoeuvre is over and it is back to 95 % of its speed before (pumping if it

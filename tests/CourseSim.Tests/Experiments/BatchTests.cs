@@ -172,7 +172,7 @@ public class RaceMetricsTests
     {
         var setup = EngineTestKit.Parse(EngineTestKit.SteadyWind(12, 5) + "[race]\ntime_limit_s = 900\n[course]\nkind = \"windward-leeward\"\naxis_deg = 0\nbeat_m = 300\nstart_line_m = 300\n" +
             $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n[boards.b]\nequipment = \"{EngineTestKit.Equip("heavy-86.toml")}\"\n");
-        var race = new CourseSim.Engine.Race(setup);
+        var race = new Race(setup);
         var result = race.Run();
         var m = RaceMetrics.Of(race, result);
         Assert.Equal(5, m.LineBiasDeg, 6);

@@ -21,14 +21,19 @@ public class EncounterTests
             new(nav.AtTrueWindAngle(o.TimeS >= _tackAt ? -_twa : _twa), _power);
     }
 
-    static EncounterTests()
+    /// <summary>This class's own tactic registry: the built-in tactics and the scripted rider.</summary>
+    static readonly TacticRegistry Tactics = MakeTactics();
+
+    static TacticRegistry MakeTactics()
     {
-        TacticRegistry.Register(new TacticSpec("test-hold", "scripted: hold a true wind angle",
+        var r = new TacticRegistry();
+        r.Register(new TacticSpec("test-hold", "scripted: hold a true wind angle",
         [
             new("twa_deg", -180, 180, 45, "signed true wind angle held, deg"),
             new("power", 0, 1, 1, "power held"),
             new("tack_at_s", -1000, 1e6, 1e6, "time to go onto the other tack, s"),
         ], a => new Hold(a)));
+        return r;
     }
 
     const double Kn = 12;
@@ -41,8 +46,8 @@ public class EncounterTests
     {
         course = course.Length > 0 ? course : "[course]\nkind = \"waypoints\"\norder = \"far\"\n[course.marks.far]\nx_m = 0\ny_m = 30000\n";
         var setup = EngineTestKit.Parse(EngineTestKit.SteadyWind(Kn) + "[race]\nfalls = false\ncountdown_s = 20\ntime_limit_s = 600\n" +
-            $"[rules]\ngive_way = {(giveWay ? "true" : "false")}\n{rules}" + course + boards);
-        return new Race(setup);
+            $"[rules]\ngive_way = {(giveWay ? "true" : "false")}\n{rules}" + course + boards, tactics: Tactics);
+        return new Race(setup, tactics: Tactics);
     }
 
     /// <summary>Puts board b where it reaches <paramref name="meet"/> after <paramref name="inS"/> seconds at a true wind angle.</summary>

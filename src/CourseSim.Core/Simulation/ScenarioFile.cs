@@ -1,72 +1,12 @@
 using System.Globalization;
 using CourseSim.Agents;
 using CourseSim.Courses;
+using CourseSim.Engine;
 using CourseSim.Equilibrium;
 using CourseSim.Settings;
 using CourseSim.Wind;
 
-namespace CourseSim.Engine;
-
-/// <summary>One board of the fleet as the scenario gives it.</summary>
-public sealed record BoardEntry(string Id, string Name, Equipment Equipment, string Tactic, double LinePosition, int Line,
-    IReadOnlyDictionary<string, double>? Params = null)
-{
-    /// <summary>Index in the fleet of the board this one's tactic watches (the rival to cover), or -1.</summary>
-    public int RivalIndex { get; init; } = -1;
-    /// <summary>The start plan: where on the line (see <see cref="ScenarioFile.StartPlans"/>).</summary>
-    public string Start { get; init; } = "line-position";
-    /// <summary>Planned arrival at the line after the signal, s (null: the engine's default margin).</summary>
-    public double? StartMarginS { get; init; }
-
-    /// <summary>A tactic parameter, or its default.</summary>
-    public double Param(string name, double fallback) => Params is not null && Params.TryGetValue(name, out var v) ? v : fallback;
-}
-
-/// <summary>Race settings: the step, the start sequence, the time limit and what is recorded.</summary>
-public sealed record RaceSettings
-{
-    /// <summary>Fixed steps per second.</summary>
-    public double StepHz { get; init; } = 20;
-    /// <summary>Rate at which each board samples the wind field and shadows, per second (at most the step rate).</summary>
-    public double WindHz { get; init; } = 5;
-    /// <summary>The simulation starts this many seconds before the starting signal.</summary>
-    public double CountdownS { get; init; } = 90;
-    /// <summary>Boards still racing this long after the signal are recorded as not finished, s.</summary>
-    public double TimeLimitS { get; init; } = 3600;
-    /// <summary>Interval between recorded samples of every board, s.</summary>
-    public double RecordIntervalS { get; init; } = 0.5;
-    /// <summary>Interval between a rider's decisions (a human rate), s.</summary>
-    public double DecisionIntervalS { get; init; } = 0.5;
-    /// <summary>Whether riders can fall (overpowered, or a failed gybe).</summary>
-    public bool Falls { get; init; } = true;
-    /// <summary>Whether riders pump below planing (off in polar checks of the engine).</summary>
-    public bool Pumping { get; init; } = true;
-    /// <summary>Clock time of the starting signal (for GPX), UTC.</summary>
-    public DateTime StartTimeUtc { get; init; } = new(2026, 6, 14, 13, 0, 0, DateTimeKind.Utc);
-    public ulong Seed { get; init; } = 1;
-}
-
-/// <summary>The right-of-way rules as the engine applies them (docs/tactics.md).</summary>
-public sealed record RuleSettings
-{
-    /// <summary>Whether riders look out and keep clear as the rules ask (off: contacts are only judged).</summary>
-    public bool GiveWay { get; init; } = true;
-    /// <summary>Whether a board found to have broken a rule in a contact takes a one-turn penalty.</summary>
-    public bool Penalties { get; init; } = true;
-    /// <summary>Rate of each rider's lookout for conflicts, per second.</summary>
-    public double LookoutHz { get; init; } = 5;
-    /// <summary>Hulls closer than this are in contact, m.</summary>
-    public double ContactM { get; init; } = 1.0;
-    /// <summary>Boards within this distance of the mark they are about to round are "rounding or passing" (Appendix B), m.</summary>
-    public double MarkRoomM { get; init; } = 15;
-}
-
-/// <summary>Everything a race needs, resolved and validated.</summary>
-public sealed record RaceSetup(string Name, string Description, string VenueName, double LatDeg, double LonDeg,
-    WindSettings Wind, RaceSettings Race, Course Course, IReadOnlyList<BoardEntry> Boards, string SourcePath)
-{
-    public RuleSettings Rules { get; init; } = new();
-}
+namespace CourseSim.Simulation;
 
 /// <summary>Scenario files (docs/scenario.md): name, venue, wind, race, course and fleet.</summary>
 public static class ScenarioFile
@@ -112,10 +52,15 @@ public static class ScenarioFile
 
     public static SettingsFile Load(string path, IEnumerable<string>? overrides = null) => SettingsFile.Load(path, Schema, overrides);
 
-    public static RaceSetup LoadRace(string path, IEnumerable<string>? overrides = null, ulong? seed = null)
-        => FromSettings(Load(path, overrides), seed);
+    public static RaceSetup LoadRace(string path, IEnumerable<string>? overrides = null, ulong? seed = null, TacticRegistry? tactics = null)
+        => FromSettings(Load(path, overrides), seed, tactics);
 
-    public static RaceSetup FromSettings(SettingsFile f, ulong? seed = null)
+    /// <summary>
+    /// The race a scenario file describes. Tactic names are checked against <paramref name="tactics"/> (default: the
+    /// built-in ones) with the scenario's own assemblies loaded into it; a race of the result must be built with the
+    /// same registry when it names tactics registered by code.
+    /// </summary>
+    public static RaceSetup FromSettings(SettingsFile f, ulong? seed = null, TacticRegistry? tactics = null)
     {
         var wind = WindFile.From(f);
         string startText = f.Text("race.start_time_utc");
@@ -136,15 +81,23 @@ public static class ScenarioFile
         };
         if (race.RecordIntervalS < 1 / race.StepHz) throw f.ErrorAt("race.record_interval_s", $"must be at least one step (1/{race.StepHz} s)");
         var course = CourseBuilder.Build(f, wind.DirectionDeg);
-        // Tactics of the user's own come first, so the boards can name them.
+        // Tactics of the user's own come first, so the boards can name them. The registry is this scenario's own; the
+        // race builds its registry again from the same assemblies (TacticAssemblies).
+        var registry = tactics ?? new TacticRegistry();
+        var assemblies = new List<string>();
         foreach (var dll in f.Text("tactics.assemblies").Split(';', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
         {
-            try { TacticRegistry.LoadAssembly(Path.Combine(f.Directory, dll)); }
+            string full = Path.GetFullPath(Path.Combine(f.Directory, dll));
+            try { registry.LoadAssembly(full, dll); }
             catch (TacticLoadException e) { throw f.ErrorAt("tactics.assemblies", e.Message); }
+            assemblies.Add(full);
         }
         var ids = f.Names("boards");
         if (ids.Count == 0) throw new SettingsException(f.Path, 0, "boards", "a race needs at least one board: add a [boards.NAME] table with equipment = \"file.toml\"");
         var boards = new List<BoardEntry>();
+        // Identity, not position: the default spread along the start line follows the boards' ids (their table names)
+        // in ordinal order, so reordering the tables of a file changes nothing.
+        var rankOf = ids.Order(StringComparer.Ordinal).Select((id, r) => (id, r)).ToDictionary(x => x.id, x => x.r, StringComparer.Ordinal);
         for (int i = 0; i < ids.Count; i++)
         {
             string id = ids[i], key = $"boards.{id}.equipment";
@@ -161,11 +114,11 @@ public static class ScenarioFile
             }
             if (sets.Length > 0) eq = eq with { Name = eq.Name + " (adjusted)" };
             string name = f.Text($"boards.{id}.name") is { Length: > 0 } n ? n : eq.Name;
-            double pos = f.Has($"boards.{id}.line_position") ? f.Number($"boards.{id}.line_position") : (i + 0.5) / ids.Count;
+            double pos = f.Has($"boards.{id}.line_position") ? f.Number($"boards.{id}.line_position") : (rankOf[id] + 0.5) / ids.Count;
             string tactic = f.Text($"boards.{id}.tactic");
-            if (!TacticRegistry.TryGet(tactic, out var tspec))
+            if (!registry.TryGet(tactic, out var tspec))
                 throw f.Has($"boards.{id}.tactic")
-                    ? f.ErrorAt($"boards.{id}.tactic", $"no tactic '{tactic}'; known tactics: {string.Join(", ", TacticRegistry.Names)}")
+                    ? f.ErrorAt($"boards.{id}.tactic", $"no tactic '{tactic}'; known tactics: {string.Join(", ", registry.Names)}")
                     : new SettingsException(f.Path, 0, $"boards.{id}.tactic", $"the default tactic '{tactic}' is not registered");
             var known = tspec.Params;
             var prm = new Dictionary<string, double>();
@@ -192,7 +145,7 @@ public static class ScenarioFile
         {
             string id = ids[i], rk = $"boards.{id}.rival";
             string rival = f.Text(rk);
-            TacticRegistry.TryGet(boards[i].Tactic, out var tspec);
+            registry.TryGet(boards[i].Tactic, out var tspec);
             if (rival.Length == 0)
             {
                 if (tspec!.NeedsRival) throw f.ErrorAt($"boards.{id}.tactic", $"tactic '{tspec.Name}' needs a rival: add rival = \"ID\" naming another [boards.ID]");
@@ -209,6 +162,6 @@ public static class ScenarioFile
             ContactM = f.Number("rules.contact_m"), MarkRoomM = f.Number("rules.mark_room_m"),
         };
         return new RaceSetup(f.Text("name"), f.Text("description"), f.Text("venue.name"), f.Number("venue.lat_deg"), f.Number("venue.lon_deg"),
-            wind, race, course, boards, f.Path) { Rules = rules };
+            wind, race, course, boards, f.Path) { Rules = rules, TacticAssemblies = assemblies };
     }
 }

@@ -1,8 +1,6 @@
-using System.Collections.Concurrent;
-using CourseSim.Equilibrium;
 using CourseSim.Units;
 
-namespace CourseSim.Engine;
+namespace CourseSim.Equilibrium;
 
 /// <summary>
 /// The rig's own polar as the engine's force model gives it (docs/engine.md, "Targets"): steady speed against true
@@ -20,10 +18,8 @@ public sealed class RigPolar
     readonly double[] _upTwa, _downTwa, _upVmg, _downVmg; // per tws
     readonly int _nt;
 
-    static readonly ConcurrentDictionary<Equipment, Lazy<RigPolar>> Cache = new();
-
-    /// <summary>The rig tables and polar for a set-up, built once per process and shared (set-ups compare by value).</summary>
-    public static RigPolar For(Equipment eq) => Cache.GetOrAdd(eq, e => new Lazy<RigPolar>(() => new RigPolar(new RigDynamics(e)))).Value;
+    /// <summary>Builds the rig tables and polar of a set-up (tens of milliseconds: share them through a <see cref="RigCache"/>).</summary>
+    public static RigPolar Build(Equipment eq) => new(new RigDynamics(eq));
 
     public RigPolar(RigDynamics rig)
     {

@@ -1,8 +1,7 @@
 using CourseSim.Environment;
-using CourseSim.Equilibrium;
 using CourseSim.Units;
 
-namespace CourseSim.Engine;
+namespace CourseSim.Equilibrium;
 
 /// <summary>Sail forces for one step: drive and side force (N), the share of the rider's heeling limit in use, and the sheet.</summary>
 public readonly record struct SailForce(double Drive, double Side, double HeelUse, double SheetFraction);

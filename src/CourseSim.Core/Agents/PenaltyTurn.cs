@@ -1,0 +1,57 @@
+using CourseSim.Engine;
+using CourseSim.Units;
+
+namespace CourseSim.Agents;
+
+/// <summary>
+/// Serving a one-turn penalty (RRS 44.1 as changed by Appendix B), as soon as the board is racing and well clear of
+/// others: one full turn made of a tack and a gybe, the same way round: head up to close-hauled, tack, bear away, gybe
+/// back onto the original tack. The tack and the gybe each wait until the rider is well clear.
+/// </summary>
+public static class PenaltyTurn
+{
+    /// <summary>A rider is well clear to take a penalty with no other board this close, m (model value).</summary>
+    public const double WellClearM = 15;
+
+    /// <summary>Starts a penalty turn for a board that owes one, is racing, free, and well clear of the others.</summary>
+    public static void MaybeStart(RaceContext c, int b, ref Penalty pen, in Pose pose, in SensedWind sw, in ManoeuvreState man, in RaceStatus st)
+    {
+        if (pen.Owed <= 0 || pen.Stage != 0 || man.Kind != Manoeuvre.None) return;
+        if (st.State is not (RaceState.Racing or RaceState.Returning) || c.Grid.NearestM[b] < WellClearM) return;
+        pen.Sign = Sailing.SignedAngle(sw.TrueFromDeg, pose.Heading) >= 0 ? 1 : -1;
+        pen.Stage = 1;
+    }
+
+    public static void Steer(RaceContext c, int b, ref Penalty pen, ref Perception per, in Pose pose, in SensedWind sw, in ManoeuvreState man, ref double h, ref double pw)
+    {
+        double twa = Sailing.SignedAngle(sw.TrueFromDeg, pose.Heading);
+        int s = pen.Sign;
+        double fromDeg = sw.TrueFromDeg;
+        double At(double twaDeg) => Unit.WrapRadPi(Unit.DegToRad(fromDeg - twaDeg));
+        bool crowded = c.Grid.NearestM[b] < WellClearM;
+        pw = 1;
+        switch (pen.Stage)
+        {
+            case 1:
+                h = At(s * 45);
+                if (Math.Abs(twa) < Unit.DegToRad(60)) pen.Stage = 2;
+                break;
+            case 2:
+                h = crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == s ? At(s * 45) : At(-s * 45);
+                if (man.Kind == Manoeuvre.None && Math.Sign(twa) == -s) pen.Stage = 3;
+                break;
+            case 3:
+                h = At(-s * 150);
+                if (Math.Abs(twa) > Unit.DegToRad(130)) pen.Stage = 4;
+                break;
+            case 4:
+                h = crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == -s ? At(-s * 150) : At(s * 150);
+                if (man.Kind == Manoeuvre.None && Math.Sign(twa) == s)
+                {
+                    pen.Stage = 0; pen.Owed--; pen.Taken++; per.LastTurnS = c.Time;
+                    c.AddEvent(b, RaceEventKind.PenaltyServed, pose, "one-turn penalty taken");
+                }
+                break;
+        }
+    }
+}

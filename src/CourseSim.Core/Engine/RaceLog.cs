@@ -1,0 +1,22 @@
+namespace CourseSim.Engine;
+
+/// <summary>What a race has written down so far: events, judged contacts and each board's splits (s from the signal).</summary>
+public sealed class RaceLog
+{
+    public List<RaceEvent> Events { get; private set; } = new();
+    public List<RaceIncident> Incidents { get; private set; } = new();
+    public List<double>[] Splits { get; private set; }
+
+    public RaceLog(int boards) => Splits = Enumerable.Range(0, boards).Select(_ => new List<double>()).ToArray();
+
+    public void Add(double timeS, int board, RaceEventKind kind, double x, double y, string detail = "") =>
+        Events.Add(new RaceEvent(timeS, board, kind, x, y, detail));
+
+    /// <summary>A deep copy (events and incidents are immutable values).</summary>
+    public RaceLog Copy()
+    {
+        var c = new RaceLog(0) { Events = new(Events), Incidents = new(Incidents) };
+        c.Splits = Splits.Select(s => new List<double>(s)).ToArray();
+        return c;
+    }
+}

@@ -1,0 +1,71 @@
+using CourseSim.Entities;
+
+namespace CourseSim.Engine;
+
+/// <summary>
+/// What every board can see of every other, taken once per step right after the wind is sensed (docs/engine.md,
+/// "Everyone reads the same instant"): position, heading, track, speed, the true wind at the rig, the direction its
+/// apparent wind blows (its wake), whether it is tacking, capsized or busy, keeping clear, and its next course step.
+/// Tactics (boards in sight), the rules' lookout and contact checks, and the shadows read this, never live components,
+/// so the order the step walks the boards in cannot change a result. Structure of arrays indexed by board.
+/// </summary>
+public sealed class StepSnapshot
+{
+    public readonly int Count;
+    public readonly double[] X, Y, Heading, Track, Speed, FromDeg, Tws, AppFromDeg, AppDownX, AppDownY;
+    public readonly int[] NextStep;
+    /// <summary>Racing or before the start (not finished, not out of the race).</summary>
+    public readonly bool[] Live;
+    public readonly bool[] Finished, Tacking, Capsized, Busy, KeepingClear;
+    /// <summary>Time the snapshot was taken, s from the signal.</summary>
+    public double TimeS;
+
+    public StepSnapshot(int n)
+    {
+        Count = n;
+        X = new double[n]; Y = new double[n]; Heading = new double[n]; Track = new double[n]; Speed = new double[n];
+        FromDeg = new double[n]; Tws = new double[n]; AppFromDeg = new double[n]; AppDownX = new double[n]; AppDownY = new double[n];
+        NextStep = new int[n];
+        Live = new bool[n]; Finished = new bool[n]; Tacking = new bool[n]; Capsized = new bool[n]; Busy = new bool[n]; KeepingClear = new bool[n];
+    }
+
+    /// <summary>Copies every board's visible state from the world (finished boards included: they are seen as not live).</summary>
+    public void Capture(Query all, double timeS)
+    {
+        TimeS = timeS;
+        foreach (var chunk in all)
+        {
+            var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>(); var sw = chunk.Span<SensedWind>();
+            var trim = chunk.Span<Trim>(); var man = chunk.Span<ManoeuvreState>(); var st = chunk.Span<RaceStatus>(); var gw = chunk.Span<GiveWay>();
+            for (int i = 0; i < ids.Length; i++)
+            {
+                int b = ids[i].Value;
+                Live[b] = st[i].State is not (RaceState.Finished or RaceState.NotFinished);
+                Finished[b] = st[i].State == RaceState.Finished;
+                X[b] = pose[i].X; Y[b] = pose[i].Y; Heading[b] = pose[i].Heading;
+                Track[b] = Math.Atan2(mo[i].TrackSin, mo[i].TrackCos); Speed[b] = mo[i].Speed;
+                FromDeg[b] = sw[i].TrueFromDeg; Tws[b] = sw[i].TrueSpeed;
+                AppFromDeg[b] = Units.Unit.WrapDeg360(Units.Unit.RadToDeg(pose[i].Heading + trim[i].ApparentAngleRad));
+                AppDownX[b] = trim[i].AppDownX; AppDownY[b] = trim[i].AppDownY;
+                ref readonly var m = ref man[i];
+                // Appendix B, rule 13 as changed: from passing head to wind until the sail has filled (the crossing,
+                // and the first second of sheeting in on the new tack).
+                Tacking[b] = m.Kind == Manoeuvre.Tack && (m.Phase == 1 || m.Phase == 2 && m.Timer < 1.0);
+                Capsized[b] = m.Kind == Manoeuvre.Fallen;
+                Busy[b] = m.Kind != Manoeuvre.None;
+                KeepingClear[b] = gw[i].On && timeS >= gw[i].AtS;
+                NextStep[b] = st[i].NextStep;
+            }
+        }
+    }
+
+    public void CopyFrom(StepSnapshot o)
+    {
+        TimeS = o.TimeS;
+        foreach (var (dst, src) in new[] { (X, o.X), (Y, o.Y), (Heading, o.Heading), (Track, o.Track), (Speed, o.Speed), (FromDeg, o.FromDeg),
+                     (Tws, o.Tws), (AppFromDeg, o.AppFromDeg), (AppDownX, o.AppDownX), (AppDownY, o.AppDownY) }) Array.Copy(src, dst, Count);
+        Array.Copy(o.NextStep, NextStep, Count);
+        foreach (var (dst, src) in new[] { (Live, o.Live), (Finished, o.Finished), (Tacking, o.Tacking), (Capsized, o.Capsized), (Busy, o.Busy), (KeepingClear, o.KeepingClear) })
+            Array.Copy(src, dst, Count);
+    }
+}

@@ -1,0 +1,134 @@
+using CourseSim.Courses;
+using CourseSim.Engine;
+using CourseSim.Units;
+
+namespace CourseSim.Rules;
+
+/// <summary>
+/// Who keeps clear between two boards, and the predictions a rider's lookout makes (closest approach, the hull gap over
+/// the next seconds, the track that ducks astern). Everything reads the step snapshot: the same instant for every board.
+/// </summary>
+public static class Judge
+{
+    /// <summary>Rule numbers as text, for codes 0..31 (a rule is kept as its number in a byte).</summary>
+    public static readonly string[] RuleText = Enumerable.Range(0, 32).Select(i => i == 0 ? "" : i.ToString(System.Globalization.CultureInfo.InvariantCulture)).ToArray();
+
+    public const byte Rule13 = 13, Rule14 = 14, Rule16 = 16, Rule18 = 18, Rule22 = 22;
+
+    static RuleBoard Of(RaceContext c, int b, double headingRad, bool tacking) =>
+        new(c.Snapshot.X[b], c.Snapshot.Y[b], Unit.RadToDeg(headingRad), c.Fleet.LengthM[b], tacking);
+
+    /// <summary>
+    /// Who keeps clear between boards a and b, a sailing <paramref name="headingA"/> (a heading on the other tack counts
+    /// as tacking: rule 13). A capsized board is given way to by everyone and owes nothing (rule 22). Rule 18 (mark-room,
+    /// Appendix B: while rounding or passing, within rules.mark_room_m of the mark) puts the outside overlapped board to
+    /// keep clear, except between boards on opposite tacks on a beat (18.1(a)). Returns -1 when nobody keeps clear.
+    /// </summary>
+    public static (int KeepClear, byte Rule) Decide(RaceContext c, int a, double headingA, int b)
+    {
+        var s = c.Snapshot;
+        if (s.Capsized[a] && s.Capsized[b]) return (-1, 0);
+        if (s.Capsized[b]) return (a, Rule22);
+        if (s.Capsized[a]) return (b, Rule22);
+        double from = s.FromDeg[a];
+        bool aTurning = s.Tacking[a] || Math.Sign(Sailing.SignedAngle(from, headingA)) != Math.Sign(Sailing.SignedAngle(from, s.Heading[a])) && Math.Abs(Sailing.SignedAngle(from, headingA)) < Math.PI / 2;
+        var ra = Of(c, a, headingA, aTurning);
+        var rb = Of(c, b, s.Heading[b], s.Tacking[b]);
+        if (ra.Tacking && rb.Tacking)
+        {
+            // Appendix B 13: both tacking, the one on the other's port side or astern keeps clear.
+            var f = rb.Forward; var port = new Vec2(-f.Y, f.X);
+            return (Vec2.Dot(ra.Centre - rb.Centre, port) > 0 ? a : b, Rule13);
+        }
+        var v = RightOfWay.Decide(ra, rb, from);
+        int keep = v.KeepClear == 0 ? a : v.KeepClear == 1 ? b : -1;
+        byte rule = (byte)v.Rule;
+        // Mark-room: both rounding or passing the same mark, overlapped.
+        var steps = c.Course.Steps;
+        if (s.NextStep[a] == s.NextStep[b] && s.NextStep[a] < steps.Count && steps[s.NextStep[a]].Kind == StepKind.Mark && v.Rule != RuleNumber.Rule13)
+        {
+            var mark = steps[s.NextStep[a]].Target;
+            double da = (ra.Centre - mark).Length, db = (rb.Centre - mark).Length;
+            bool beatOpposite = v.Rule == RuleNumber.Rule10 && (Math.Abs(Sailing.SignedAngle(from, headingA)) < Math.PI / 2 || Math.Abs(Sailing.SignedAngle(from, s.Heading[b])) < Math.PI / 2);
+            if (da < c.Rules.MarkRoomM && db < c.Rules.MarkRoomM && RightOfWay.Overlapped(ra, rb) && !beatOpposite)
+            {
+                // Inside: the board on the mark's side of the other (abeam), not merely the nearer one.
+                var fb = rb.Forward; var right = new Vec2(fb.Y, -fb.X);
+                bool aInside = Math.Sign(Vec2.Dot(ra.Centre - rb.Centre, right)) == Math.Sign(Vec2.Dot(mark - rb.Centre, right));
+                return (aInside ? b : a, Rule18);
+            }
+        }
+        return (keep, rule);
+    }
+
+    /// <summary>
+    /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track ha
+    /// (rad) at va (m/s), b holding its present track and speed (tracks, not headings: leeway is large at low speed).
+    /// </summary>
+    public static (double T, double D) Cpa(StepSnapshot s, int a, double ha, double va, int b)
+    {
+        double rx = s.X[b] - s.X[a], ry = s.Y[b] - s.Y[a];
+        double vx = s.Speed[b] * Math.Sin(s.Track[b]) - va * Math.Sin(ha), vy = s.Speed[b] * Math.Cos(s.Track[b]) - va * Math.Cos(ha);
+        double vv = vx * vx + vy * vy;
+        double t = vv < 1e-9 ? 0 : Math.Clamp(-(rx * vx + ry * vy) / vv, 0, Lookout.LookaheadS);
+        double dx = rx + vx * t, dy = ry + vy * t;
+        return (t, Math.Sqrt(dx * dx + dy * dy));
+    }
+
+    /// <summary>Relative speed of b seen from a (a making good track h at v), m/s.</summary>
+    public static double ClosingSpeed(StepSnapshot s, int a, double h, double v, int b)
+    {
+        double vx = s.Speed[b] * Math.Sin(s.Track[b]) - v * Math.Sin(h), vy = s.Speed[b] * Math.Cos(s.Track[b]) - v * Math.Cos(h);
+        return Math.Sqrt(vx * vx + vy * vy);
+    }
+
+    /// <summary>The hull-to-hull gap a give-way rider aims to keep when passing, m.</summary>
+    public static double PassClear(StepSnapshot s, int a, double h, double v, int b) => Lookout.PassClearM + Lookout.PassClearPerMs * ClosingSpeed(s, a, h, v, b);
+
+    /// <summary>The track (rad) from board a at speed v that meets the point astern of board b where b will then be.</summary>
+    public static double DuckTrack(RaceContext c, int a, int b, double v)
+    {
+        var s = c.Snapshot;
+        double back = 0.5 * c.Fleet.LengthM[b] + Lookout.PassClearM + 2;
+        double px = s.X[b] - back * Math.Sin(s.Heading[b]), py = s.Y[b] - back * Math.Cos(s.Heading[b]);
+        double vx = s.Speed[b] * Math.Sin(s.Track[b]), vy = s.Speed[b] * Math.Cos(s.Track[b]);
+        // Lead: two passes of the fixed-point estimate of the meeting time.
+        double t = 0;
+        for (int i = 0; i < 2; i++)
+        {
+            double dx = px + vx * t - s.X[a], dy = py + vy * t - s.Y[a];
+            t = Math.Min(Lookout.LookaheadS, Math.Sqrt(dx * dx + dy * dy) / Math.Max(v, 0.5));
+        }
+        return Math.Atan2(px + vx * t - s.X[a], py + vy * t - s.Y[a]);
+    }
+
+    /// <summary>
+    /// Smallest gap between the two hulls over the next seconds (sampled every half second to 6 s), board a making
+    /// good track h at speed v and b holding its track and speed (with the acceleration read at the lookout), each hull
+    /// along its heading.
+    /// </summary>
+    public static double PredictedHullGap(RaceContext c, int a, double h, double v, int b)
+    {
+        var s = c.Snapshot;
+        double la = c.Fleet.LengthM[a], lb = c.Fleet.LengthM[b], accB = c.LookoutAccel[b];
+        double ha = Unit.RadToDeg(h), hb = Unit.RadToDeg(s.Heading[b]);
+        double sa = Math.Sin(h), ca = Math.Cos(h), sb = Math.Sin(s.Track[b]), cb = Math.Cos(s.Track[b]);
+        // The turn onto h takes time (a slow board turns at the rate the rig can steer it, a fast one carves quicker;
+        // model value 20 + 8 deg/s per m/s, at most 70 deg/s): until it is made, a moves along the bisector.
+        double turn = Unit.WrapRadPi(h - s.Track[a]);
+        double turnS = Math.Abs(Unit.RadToDeg(turn)) / Math.Clamp(20 + 8 * s.Speed[a], 20, Tuning.MaxYawDegPerS);
+        double mid = s.Track[a] + 0.5 * turn, sm = Math.Sin(mid), cm = Math.Cos(mid), vNow = Math.Max(s.Speed[a], 0.5);
+        double gap = double.PositiveInfinity;
+        for (int i = 0; i <= 12; i++)
+        {
+            double tau = 0.5 * i;
+            double db = Math.Max(0, s.Speed[b] * tau + 0.5 * accB * tau * tau); // b's run along its track, with its acceleration
+            double inTurn = Math.Min(tau, turnS), after = tau - inTurn;
+            double ax = s.X[a] + vNow * inTurn * sm + v * after * sa, ay = s.Y[a] + vNow * inTurn * cm + v * after * ca;
+            var ra = new RuleBoard(ax, ay, ha, la);
+            var rb = new RuleBoard(s.X[b] + db * sb, s.Y[b] + db * cb, hb, lb);
+            gap = Math.Min(gap, RightOfWay.HullDistance(ra, rb));
+        }
+        return gap;
+    }
+}

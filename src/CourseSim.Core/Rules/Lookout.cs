@@ -1,0 +1,196 @@
+using CourseSim.Engine;
+using CourseSim.Units;
+
+namespace CourseSim.Rules;
+
+/// <summary>
+/// The rules' lookout (docs/tactics.md). At the lookout rate each rider scans the boards within range in the step
+/// snapshot and projects both tracks ahead (closest point of approach at present speeds, the rider on the heading they
+/// want): a conflict with a board they must keep clear of (rules 10-13, 18 as changed by Appendix B) makes them act,
+/// after their reaction time, by the least change that clears it (bear away to duck, head up, slow down, tack or gybe
+/// away, or put off a tack); a right-of-way rider holds course unless contact is imminent (rule 14). Writes only the
+/// rider's own give-way plan and their own foreseen conflicts (keyed by keep-clear board first).
+/// </summary>
+public sealed class Lookout : RaceSystem
+{
+    /// <summary>Centre-to-centre passing distance below which a rider sees a conflict, m (model value: under two board lengths).</summary>
+    public const double ConflictM = 6;
+    /// <summary>Extra conflict distance per m/s of closing speed, m (model value).</summary>
+    public const double ConflictPerMs = 0.3;
+    /// <summary>A rider does not start a tack or gybe that would bring any board within this many conflict distances (RRS 13, 15, 16; model value).</summary>
+    public const double TurnMarginShare = 2;
+    /// <summary>A tack or gybe begun with another board this close (centre distance, m) counts as begun too close if contact follows within <see cref="TurnTooCloseS"/> (model value).</summary>
+    public const double TurnTooCloseM = 12, TurnTooCloseS = 6;
+    /// <summary>Time ahead a rider looks for conflicts, s (model value).</summary>
+    public const double LookaheadS = 8;
+    /// <summary>A right-of-way board acts (RRS 14) when contact is this close in time and the other is not keeping clear, s (model value).</summary>
+    public const double LastMomentS = 1.5;
+    /// <summary>Least true wind angle a give-way rider heads up to, deg (model value: a little below close-hauled).</summary>
+    public const double AvoidMinTwaDeg = 38;
+    /// <summary>
+    /// A running give-way rider may gybe away when no turn on the present gybe keeps clear: only from a true wind angle
+    /// of at least this (deg) onto one of at least this on the other gybe (common practice; model value).
+    /// </summary>
+    public const double GybeAwayMinTwaDeg = 140;
+    /// <summary>Mean speed through a gybe away as a share of the present speed, and its score charge in degrees of turn (model values).</summary>
+    public const double GybeAwaySpeedShare = 0.75, GybeAwayCharge = 40;
+    /// <summary>
+    /// A beating give-way rider (this close to the wind or closer, deg) may tack away onto the best VMG angle of the other
+    /// tack, when no board is within <see cref="TurnAwayMinM"/>: at this share of the present speed over the look
+    /// ahead, charged as this many degrees of turn (common practice; RRS 13 and 15; model values).
+    /// </summary>
+    public const double TackAwayMaxTwaDeg = 75, TackAwaySpeedShare = 0.3, TackAwayCharge = 60;
+    /// <summary>A give-way rider does not tack or gybe away with another board's centre closer than this, m.</summary>
+    public const double TurnAwayMinM = TurnTooCloseM;
+    /// <summary>Hull-to-hull gap a give-way rider aims to keep when passing slowly, m, and the extra per m/s of closing speed (model values).</summary>
+    public const double PassClearM = 2.5, PassClearPerMs = 0.25;
+    /// <summary>Score preference for ducking astern over a fixed turn of the same size (model value, degrees of turn).</summary>
+    public const double DuckPreference = 15;
+
+    public override string Name => "rules lookout";
+    public override SystemScope Scope => SystemScope.OwnBoard;
+    public override string Reads => "Helm, Penalty; snapshot; grid (neighbours, nearest); lookout accelerations";
+    public override string Writes => "GiveWay, own foreseen conflicts, events";
+
+    readonly List<int> _threats = new();
+
+    public override void RunBoards(RaceContext c, ref BoardBlock blk)
+    {
+        if (!c.IsLookoutStep || !c.Rules.GiveWay) return;
+        for (int i = 0; i < blk.Count; i++)
+        {
+            int k = blk.Id[i].Value;
+            if (c.Snapshot.Live[k]) One(c, k, in blk.Helm[i], in blk.Penalty[i], ref blk.GiveWay[i]);
+        }
+    }
+
+    /// <summary>
+    /// Fills the threat list with the boards board k must act for if it makes good track h at speed v: those it must
+    /// keep clear of (or, when <paramref name="turning"/>, any board: RRS 15 and 16) passing within the margin in the
+    /// lookahead, and right-of-way boards about to hit it that are not keeping clear themselves (RRS 14).
+    /// </summary>
+    bool Threats(RaceContext c, int k, double h, double v, double margin, bool turning, ref int firstOther, ref byte firstRule)
+    {
+        _threats.Clear();
+        var s = c.Snapshot;
+        foreach (int j in c.Grid.Neighbours(k))
+        {
+            long key = RaceContext.PairKey(k, j);
+            var (t, d) = Judge.Cpa(s, k, h, v, j);
+            // Faster closing, wider berth (the same rule of thumb as the passing gap).
+            double m = margin + ConflictPerMs * Judge.ClosingSpeed(s, k, h, v, j);
+            if (d >= m || t >= LookaheadS)
+            {
+                // No conflict: forget one this rider had foreseen as theirs.
+                if (!turning && c.Foreseen.ContainsKey(key) && Judge.Decide(c, k, h, j).KeepClear == k) c.Foreseen.Remove(key);
+                continue;
+            }
+            var (keep, rule) = Judge.Decide(c, k, h, j);
+            bool mine = keep == k || turning && keep >= 0;
+            bool lastMoment = keep == j && t < LastMomentS && !s.KeepingClear[j];
+            if (keep == k && (!c.Foreseen.TryGetValue(key, out var seen) || seen.Rule != rule)) c.Foreseen[key] = new Foreseen(c.Time, rule, s.Heading[j]);
+            if (!mine && !lastMoment) continue;
+            _threats.Add(j);
+            if (firstOther < 0) { firstOther = j; firstRule = keep == k ? rule : turning ? Judge.Rule16 : Judge.Rule14; }
+        }
+        return _threats.Count > 0;
+    }
+
+    void One(RaceContext c, int k, in Helm helm, in Penalty pen, ref GiveWay gw)
+    {
+        var s = c.Snapshot;
+        if (s.Busy[k]) return; // mid-manoeuvre or in the water: cannot act now
+        // What the rider is about to do: a decision still in their reaction time is what they look out for.
+        bool pending = helm.HasPending && pen.Stage == 0;
+        double want = pending ? helm.PendH : helm.PlannedH;
+        double from = s.FromDeg[k];
+        int side = Math.Sign(Sailing.SignedAngle(from, s.Heading[k])); if (side == 0) side = 1;
+        // Wanting the other tack: the rider foresees being nearly stopped through the tack (model value: a third of the speed).
+        bool turning = Math.Sign(Sailing.SignedAngle(from, want)) != side;
+        // Until a pending decision takes effect the present one still steers: a tack it asks for is vetted too.
+        if (!turning && Math.Sign(Sailing.SignedAngle(from, helm.PlannedH)) != side) { want = helm.PlannedH; turning = true; }
+        double va = turning ? 0.3 * s.Speed[k] : Math.Max(s.Speed[k], 1.0);
+        int firstOther = -1; byte firstRule = 0;
+        double margin = gw.On ? ConflictM * 1.3 : ConflictM; // hysteresis: release only when clearly clear
+        if (!Threats(c, k, want, va, turning ? margin * TurnMarginShare : margin, turning, ref firstOther, ref firstRule))
+        {
+            gw.On = false; return;
+        }
+        double cur = s.Track[k];
+        double baseH = want;
+        if (turning)
+        {
+            // The tack or gybe is put off: the rider stays on the present tack, keeping clear there as the rules ask.
+            baseH = cur; va = Math.Max(s.Speed[k], 1.0);
+            int o2 = -1; byte r2 = 0;
+            if (!Threats(c, k, cur, va, margin, false, ref o2, ref r2))
+            {
+                Start(c, k, ref gw, pending ? helm.PendAt : double.NaN, firstOther, firstRule);
+                gw.Heading = cur; gw.Power = 1;
+                return;
+            }
+        }
+        var (bestH, bestP) = Choose(c, k, in gw, baseH, va, side, turning, from, cur);
+        Start(c, k, ref gw, pending ? helm.PendAt : double.NaN, firstOther, firstRule);
+        gw.Heading = bestH; gw.Power = bestP;
+    }
+
+    /// <summary>
+    /// The way of keeping clear: each candidate is scored by how far it turns from what the rider wants, plus a large
+    /// charge for any clearance short of the margin (so the clearest is taken when none clears fully), less a bonus for
+    /// the way already chosen (riders do not dither between ducking and slowing). Besides fixed turns either way, the
+    /// duck astern of the nearest threat, and a change of tack (a gybe away on a run, a tack away on a beat) vetted
+    /// against every board in sight (RRS 13, 15, 16).
+    /// </summary>
+    (double H, double P) Choose(RaceContext c, int k, in GiveWay gw, double baseH, double va, int side, bool turning, double from, double cur)
+    {
+        var s = c.Snapshot;
+        double bestScore = double.PositiveInfinity, bestH = baseH, bestP = 1;
+        Span<double> offsets = stackalloc double[19];
+        ReadOnlySpan<double> fixedOffsets = [0, 10, -10, 20, -20, 30, -30, 45, -45, 60, -60, 80, -80, 100, -100, 120, -120];
+        fixedOffsets.CopyTo(offsets);
+        offsets[17] = Unit.RadToDeg(Unit.WrapRadPi(Judge.DuckTrack(c, k, _threats[0], va) - baseH));
+        double twaCur = Math.Abs(Sailing.SignedAngle(from, cur));
+        bool roomToTurn = !turning && c.Grid.NearestM[k] > TurnAwayMinM;
+        bool mayGybe = roomToTurn && twaCur >= Unit.DegToRad(GybeAwayMinTwaDeg);
+        bool mayTack = roomToTurn && twaCur <= Unit.DegToRad(TackAwayMaxTwaDeg);
+        offsets[18] = mayTack ? Unit.RadToDeg(Unit.WrapRadPi(Sailing.CloseHauledOtherTack(c.Fleet.Polars[k], from, side, s.Tws[k]) - baseH)) : double.NaN;
+        var neighbours = c.Grid.Neighbours(k);
+        for (int slow = 0; slow < 2; slow++)
+            for (int oi = 0; oi < offsets.Length; oi++)
+            {
+                double off = offsets[oi];
+                if (double.IsNaN(off)) continue;
+                double h = Unit.WrapRadPi(baseH + Unit.DegToRad(off));
+                double twa = Sailing.SignedAngle(from, h);
+                bool other = Math.Sign(twa) != side;
+                bool gybe = other && mayGybe && Math.Abs(twa) >= Unit.DegToRad(GybeAwayMinTwaDeg);
+                bool tack = other && mayTack && oi == 18;
+                if (other && !(slow == 0 && (gybe || tack))) continue;
+                if (Math.Abs(twa) < Unit.DegToRad(AvoidMinTwaDeg) || !other && Math.Abs(twa) > Unit.DegToRad(178)) continue;
+                // Luffing, a board coasts to a stop over a few seconds (mean speed over the next three seconds about 60 %
+                // of the present one); sheeting out on a run hardly slows it (model values).
+                double v = tack ? TackAwaySpeedShare * va : gybe ? GybeAwaySpeedShare * va : slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.6 : 0.85) * s.Speed[k] : va;
+                double worst = double.PositiveInfinity;
+                if (other) foreach (int j in neighbours) worst = Math.Min(worst, Judge.PredictedHullGap(c, k, h, v, j) - Judge.PassClear(s, k, h, v, j));
+                else foreach (int j in _threats) worst = Math.Min(worst, Judge.PredictedHullGap(c, k, h, v, j) - Judge.PassClear(s, k, h, v, j));
+                double score = (tack ? 0 : Math.Abs(off)) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (tack ? TackAwayCharge : 0)
+                             + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);
+                if (gw.On && (slow == 1) == (gw.Power == 0) && Math.Abs(Unit.WrapRadPi(h - gw.Heading)) < Unit.DegToRad(6)) score -= 15;
+                if (score < bestScore) { bestScore = score; bestH = h; bestP = slow == 1 ? 0 : 1; }
+            }
+        return (bestH, bestP);
+    }
+
+    /// <summary>A new give-way episode (or the same rider now keeping clear of another board, or under another rule).</summary>
+    static void Start(RaceContext c, int k, ref GiveWay gw, double pendingAt, int other, byte rule)
+    {
+        if (gw.On && gw.Other == other && gw.Rule == rule) return;
+        if (!gw.On) gw.AtS = c.Time + c.Fleet.ReactionS[k];
+        gw.On = true; gw.Other = other; gw.Rule = rule; gw.Episodes++;
+        if (!double.IsNaN(pendingAt)) gw.AtS = Math.Min(gw.AtS, pendingAt); // seen while deciding: acted on with it
+        var s = c.Snapshot;
+        c.Log.Add(c.Time, k, RaceEventKind.GiveWay, s.X[k], s.Y[k],
+            rule == Judge.Rule16 ? $"puts off a tack or gybe near {c.Fleet.Names[other]} (rule 16)" : $"keeps clear of {c.Fleet.Names[other]} (rule {Judge.RuleText[rule]})");
+    }
+}
