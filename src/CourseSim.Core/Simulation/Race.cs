@@ -78,8 +78,8 @@ public sealed class Race
         _decide = new DecideSystem(_c, tactics ?? TacticRegistry.With(setup.TacticAssemblies));
         Pipeline = new Pipeline(
         [
-            new SenseWindSystem(), new SnapshotSystem(), new ObserveSystem(), _decide, new TrimSystem(), new ForcesSystem(),
-            new IntegrateSystem(), new ManoeuvreSystem(), new CourseProgressSystem(), new Lookout(), new ContactSystem(), new RecordSystem(),
+            new SenseWindSystem(), new SnapshotSystem(), new Lookout(), new ObserveSystem(), _decide, new TrimSystem(), new ForcesSystem(),
+            new IntegrateSystem(), new ManoeuvreSystem(), new CourseProgressSystem(), new ContactSystem(), new RecordSystem(),
         ]);
         _c.Snapshot.Capture(_c.All, Time);
         // Room for the whole race's samples up front (no growing in the step): the estimated duration with a margin.
