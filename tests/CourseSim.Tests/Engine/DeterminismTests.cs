@@ -1,0 +1,162 @@
+using System.Text.RegularExpressions;
+using CourseSim.Engine;
+using CourseSim.Replay;
+using CourseSim.Tests.Settings;
+
+namespace CourseSim.Tests.Engine;
+
+/// <summary>
+/// The determinism contract of docs/engine.md: board order, the pipeline's block size, timings, a checkpoint and the
+/// machine's load cannot change a result; golden hashes of the two demos' final states guard against silent change.
+/// </summary>
+public class DeterminismTests
+{
+    static string Fleet40 => Path.Combine(RepoRoot.Path, "scenarios", "korrin-bay-fleet40.toml");
+
+    /// <summary>The scenario file with its [boards.*] tables in another order (each board's tables kept together).</summary>
+    static string Reordered(string text, Func<IReadOnlyList<string>, IEnumerable<string>> order)
+    {
+        var lines = text.Split('\n');
+        int first = Array.FindIndex(lines, l => l.StartsWith("[boards.", StringComparison.Ordinal));
+        var head = string.Join('\n', lines[..first]);
+        var chunks = new List<(string Id, List<string> Lines)>();
+        for (int i = first; i < lines.Length; i++)
+        {
+            var m = Regex.Match(lines[i], @"^\[boards\.([A-Za-z0-9_-]+)");
+            if (m.Success && (chunks.Count == 0 || chunks[^1].Id != m.Groups[1].Value)) chunks.Add((m.Groups[1].Value, new List<string>()));
+            chunks[^1].Lines.Add(lines[i]);
+        }
+        var ids = chunks.Select(c => c.Id).ToList();
+        Assert.Equal(ids.Count, ids.Distinct().Count());
+        var byId = chunks.ToDictionary(c => c.Id, c => string.Join('\n', c.Lines));
+        return head + "\n" + string.Join("\n", order(ids).Select(id => byId[id])) + "\n";
+    }
+
+    static (RaceResult Result, Race Race) Run(string scenarioText, ulong seed, string dir)
+    {
+        string path = Path.Combine(dir, $"fleet-{Guid.NewGuid():N}.toml");
+        File.WriteAllText(path, scenarioText);
+        var race = new Race(ScenarioFile.LoadRace(path, null, seed));
+        return (race.Run(), race);
+    }
+
+    [Fact]
+    public void PermutingTheBoardsOfTheFortyBoardDemoChangesNoBoardsResultOrTrack()
+    {
+        string text = File.ReadAllText(Fleet40);
+        // The reordered files must sit beside the original: equipment paths are relative to the scenario.
+        string dir = Path.GetDirectoryName(Fleet40)!;
+        var reversed = Reordered(text, ids => ids.Reverse());
+        var shuffled = Reordered(text, ids => ids.OrderBy(id => Fleet.KeyOf(id + "shuffle")));
+        Assert.NotEqual(text, reversed);
+        try
+        {
+            foreach (ulong seed in new ulong[] { 1, 2 })
+            {
+                var (a, ra) = Run(text, seed, dir);
+                foreach (var other in new[] { reversed, shuffled })
+                {
+                    var (b, rb) = Run(other, seed, dir);
+                    Assert.Equal(a.Boards.Count, b.Boards.Count);
+                    foreach (var x in a.Boards)
+                    {
+                        string id = ra.Setup.Boards[x.Board].Id;
+                        int j = rb.Setup.Boards.Select((e, k) => (e, k)).Single(t => t.e.Id == id).k;
+                        var y = b.Boards[j];
+                        Assert.Equal((x.Place, x.ElapsedS, x.DistanceM, x.Tacks, x.Gybes, x.Falls, x.Ocs, x.Penalties, x.GiveWays),
+                                     (y.Place, y.ElapsedS, y.DistanceM, y.Tacks, y.Gybes, y.Falls, y.Ocs, y.Penalties, y.GiveWays));
+                        Assert.Equal(x.SplitsS, y.SplitsS);
+                        // The whole recorded track, sample by sample.
+                        Assert.Equal(ra.Recorder.Frames, rb.Recorder.Frames);
+                        for (int k = 0; k < ra.Recorder.Frames; k++) Assert.Equal(ra.Recorder.At(k, x.Board), rb.Recorder.At(k, j));
+                    }
+                    Assert.Equal(a.Incidents.Count, b.Incidents.Count);
+                }
+            }
+        }
+        finally
+        {
+            foreach (var f in Directory.GetFiles(dir, "fleet-*.toml")) File.Delete(f);
+        }
+    }
+
+    [Fact]
+    public void BlockSizeAndTimingsChangeNothing()
+    {
+        // Own-board systems run fused in blocks: a block of one board, of seven, or the whole fleet at once (each
+        // system over every board in turn) must give the same bytes, and so must timings on. A system that read another
+        // board's live state while declaring itself own-board would make these differ (the declaration's guard).
+        var setup = ScenarioFile.LoadRace(Fleet40, ["race.time_limit_s=240"], 3);
+        byte[] Once(int block, bool timed)
+        {
+            var race = new Race(setup);
+            race.Pipeline.BlockSize = block;
+            if (timed) race.Timings = new SystemTimings();
+            var res = race.Run();
+            if (timed) Assert.True(race.Timings!.Steps > 1000);
+            return ReplayFile.Write(race, res);
+        }
+        var reference = Once(64, false);
+        Assert.Equal(reference, Once(1, false));
+        Assert.Equal(reference, Once(7, false));
+        Assert.Equal(reference, Once(1000, false));
+        Assert.Equal(reference, Once(64, true));
+    }
+
+    [Fact]
+    public void FusedStagesHoldOnlySystemsDeclaredOwnBoard()
+    {
+        var race = new Race(EngineTestKit.Demo(["race.time_limit_s=60"]));
+        var stages = race.Pipeline.Stages.ToList();
+        Assert.Contains(stages, s => s.Count > 1);
+        foreach (var s in stages.Where(s => s.Count > 1)) Assert.All(s, sys => Assert.Equal(SystemScope.OwnBoard, sys.Scope));
+        // The order of the issue's pipeline: sensing first, the snapshot right after it, recording last.
+        var names = race.Pipeline.Systems.Select(s => s.Name).ToList();
+        Assert.Equal("sense wind", names[0]);
+        Assert.Equal("snapshot", names[1]);
+        Assert.Equal("record", names[^1]);
+        Assert.True(names.IndexOf("decide") < names.IndexOf("trim") && names.IndexOf("trim") < names.IndexOf("integrate")
+                    && names.IndexOf("integrate") < names.IndexOf("course progress") && names.IndexOf("course progress") < names.IndexOf("contacts"));
+    }
+
+    [Fact]
+    public void ACheckpointRestoredAndSteppedOnGivesWhatSteppingOnGave()
+    {
+        var setup = ScenarioFile.LoadRace(Fleet40, null, 5);
+        var a = new Race(setup);
+        // Mid-race: boards racing, some giving way, the rules busy.
+        while (a.Time < 150) a.Step();
+        var cp = a.Save();
+        string atSave = a.StateHash();
+        for (int i = 0; i < 2000; i++) a.Step();
+        string onward = a.StateHash();
+        // Into a fresh race of the same setup.
+        var b = new Race(setup);
+        b.Restore(cp);
+        Assert.Equal(atSave, b.StateHash());
+        for (int i = 0; i < 2000; i++) b.Step();
+        Assert.Equal(onward, b.StateHash());
+        // Into the race it came from, after it had moved on.
+        a.Restore(cp);
+        Assert.Equal(atSave, a.StateHash());
+        for (int i = 0; i < 2000; i++) a.Step();
+        Assert.Equal(onward, a.StateHash());
+        Assert.NotEqual(atSave, onward);
+    }
+
+    // Golden hashes of the final state (every component, clock, log, splits, recorded samples) of the two demos at their
+    // own seeds. Change them only on purpose, with a note in the commit saying why (docs/engine.md, "Determinism").
+    const string GoldenDemo12 = "";
+    const string GoldenDemo40 = "";
+
+    [Fact]
+    public void GoldenHashesOfTheDemos()
+    {
+        var r12 = new Race(EngineTestKit.Demo());
+        r12.Run();
+        var r40 = new Race(ScenarioFile.LoadRace(Fleet40));
+        r40.Run();
+        Assert.Equal(GoldenDemo12, r12.StateHash());
+        Assert.Equal(GoldenDemo40, r40.StateHash());
+    }
+}

@@ -1,0 +1,69 @@
+using System.Text.RegularExpressions;
+using CourseSim.Tests.Settings;
+
+namespace CourseSim.Tests.Engine;
+
+/// <summary>The folders of src/CourseSim.Core import each other without a cycle (DEVELOPERS.md, "Layout"), and no source file is a god file.</summary>
+public class LayeringTests
+{
+    static string Core => Path.Combine(RepoRoot.Path, "src", "CourseSim.Core");
+
+    static Dictionary<string, HashSet<string>> Imports()
+    {
+        var g = new Dictionary<string, HashSet<string>>();
+        foreach (var file in Directory.EnumerateFiles(Core, "*.cs", SearchOption.AllDirectories))
+        {
+            var rel = Path.GetRelativePath(Core, file);
+            if (rel.StartsWith("bin", StringComparison.Ordinal) || rel.StartsWith("obj", StringComparison.Ordinal)) continue;
+            string folder = rel.Split(Path.DirectorySeparatorChar)[0];
+            if (!g.TryGetValue(folder, out var set)) g[folder] = set = new HashSet<string>();
+            var text = File.ReadAllText(file);
+            // using directives and fully qualified references both count.
+            foreach (Match m in Regex.Matches(text, @"CourseSim\.([A-Z][A-Za-z]+)"))
+            {
+                string ns = m.Groups[1].Value;
+                string target = ns switch { "Courses" => "Course", "Engine" => "Engine", _ => ns };
+                if (target != folder && Directory.Exists(Path.Combine(Core, target))) set.Add(target);
+            }
+        }
+        return g;
+    }
+
+    [Fact]
+    public void NoImportCycleBetweenFolders()
+    {
+        var g = Imports();
+        // Depth-first search for a back edge, reporting the cycle.
+        var state = new Dictionary<string, int>();
+        var path = new List<string>();
+        string? Visit(string n)
+        {
+            state[n] = 1; path.Add(n);
+            foreach (var m in g.GetValueOrDefault(n) ?? [])
+            {
+                if (state.GetValueOrDefault(m) == 1) return string.Join(" -> ", path.SkipWhile(p => p != m).Append(m));
+                if (state.GetValueOrDefault(m) == 0 && Visit(m) is { } c) return c;
+            }
+            state[n] = 2; path.RemoveAt(path.Count - 1);
+            return null;
+        }
+        foreach (var n in g.Keys.Order())
+            if (state.GetValueOrDefault(n) == 0 && Visit(n) is { } cycle) Assert.Fail($"import cycle: {cycle}");
+        // The engine's core knows nothing of the agents, the rules or the race that composes them.
+        Assert.DoesNotContain("Agents", g["Engine"]);
+        Assert.DoesNotContain("Rules", g["Engine"]);
+        Assert.DoesNotContain("Simulation", g["Engine"]);
+        Assert.DoesNotContain("Engine", g["Equilibrium"]);
+    }
+
+    [Fact]
+    public void NoSourceFileIsOverFourHundredLines()
+    {
+        foreach (var file in Directory.EnumerateFiles(Path.Combine(RepoRoot.Path, "src"), "*.cs", SearchOption.AllDirectories))
+        {
+            if (file.Contains($"{Path.DirectorySeparatorChar}obj{Path.DirectorySeparatorChar}")) continue;
+            int lines = File.ReadAllLines(file).Length;
+            Assert.True(lines <= 420, $"{Path.GetRelativePath(RepoRoot.Path, file)} has {lines} lines: split it (DEVELOPERS.md)");
+        }
+    }
+}
