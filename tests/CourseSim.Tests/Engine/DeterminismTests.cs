@@ -146,8 +146,8 @@ public class DeterminismTests
 
     // Golden hashes of the final state (every component, clock, log, splits, recorded samples) of the two demos at their
     // own seeds. Change them only on purpose, with a note in the commit saying why (docs/engine.md, "Determinism").
-    const string GoldenDemo12 = "";
-    const string GoldenDemo40 = "";
+    const string GoldenDemo12 = "ecb993585d00c16ce44c293dbd72ab480c65b45bcbc747d58e17d4a3e4fd2633"; // engine 2, 2 Dec 2026: first pipeline engine
+    const string GoldenDemo40 = "28851af64c200cb06238477a6b8207bbfb21a0178e238f410f2818824b820002"; // engine 2, 2 Dec 2026
 
     [Fact]
     public void GoldenHashesOfTheDemos()
