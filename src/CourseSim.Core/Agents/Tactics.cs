@@ -104,8 +104,10 @@ public static class BuiltInTactics
             var right = RightOfWind(o);
             double going = Vec2.Dot(Vec2.FromBearing(o.HeadingDeg), right);
             double here = o.WindSpeedMs, sumAhead = here, nAhead = 1, sumOther = 0, nOther = 0;
-            foreach (var s in o.Nearby)
+            var nearby = o.Nearby;
+            for (int i = 0; i < nearby.Count; i++) // by index: a foreach over the interface would allocate an enumerator
             {
+                var s = nearby[i];
                 if (s.DistanceM > _sight) continue;
                 double side = Vec2.Dot(s.Position - o.Position, right); // m to the right of the rider, looking upwind
                 if (Math.Abs(side) < 20) continue; // abeam in line with the rider: tells nothing about a side
@@ -153,8 +155,10 @@ public static class BuiltInTactics
         {
             double heading = ToMark(o, nav);
             if (o.Leg == LegKind.Reach || o.TimeS - o.LastTurnS < _minTack) return new(heading);
-            foreach (var s in o.Nearby)
+            var nearby = o.Nearby;
+            for (int i = 0; i < nearby.Count; i++)
             {
+                var s = nearby[i];
                 if (s.Board != _rival || s.DistanceM > _sight || s.NextStep != o.NextStep) continue;
                 // Ahead when nearer the mark (by distance to the aim point): then match the rival's tack.
                 bool ahead = (o.AimPoint - o.Position).Length < (o.AimPoint - s.Position).Length;

@@ -72,11 +72,13 @@ public sealed class SystemTimings
 {
     public string[] Names { get; private set; } = [];
     public long[] Ticks { get; private set; } = [];
+    /// <summary>Bytes allocated on the race's thread in each system.</summary>
+    public long[] Bytes { get; private set; } = [];
     public long Steps { get; private set; }
     internal void Bind(IReadOnlyList<RaceSystem> systems)
     {
         if (Ticks.Length == systems.Count) return;
-        Names = systems.Select(s => s.Name).ToArray(); Ticks = new long[Names.Length];
+        Names = systems.Select(s => s.Name).ToArray(); Ticks = new long[Names.Length]; Bytes = new long[Names.Length];
     }
     internal void EndStep() => Steps++;
     /// <summary>Nanoseconds per board-step in system i.</summary>
@@ -121,9 +123,9 @@ public sealed class Pipeline
         {
             if (!fused)
             {
-                long f0 = timings is null ? 0 : Stopwatch.GetTimestamp();
+                long f0 = timings is null ? 0 : Stopwatch.GetTimestamp(), m0 = timings is null ? 0 : GC.GetAllocatedBytesForCurrentThread();
                 Systems[from].RunFleet(c);
-                if (timings is not null) timings.Ticks[from] += Stopwatch.GetTimestamp() - f0;
+                if (timings is not null) { timings.Ticks[from] += Stopwatch.GetTimestamp() - f0; timings.Bytes[from] += GC.GetAllocatedBytesForCurrentThread() - m0; }
                 continue;
             }
             for (int s = from; s < to; s++) { long t0 = timings is null ? 0 : Stopwatch.GetTimestamp(); Systems[s].Prepare(c); if (timings is not null) timings.Ticks[s] += Stopwatch.GetTimestamp() - t0; }
@@ -136,9 +138,10 @@ public sealed class Pipeline
                     for (int s = from; s < to; s++)
                     {
                         if (timings is null) { Systems[s].RunBoards(c, ref block); continue; }
-                        long t0 = Stopwatch.GetTimestamp();
+                        long t0 = Stopwatch.GetTimestamp(), m0 = GC.GetAllocatedBytesForCurrentThread();
                         Systems[s].RunBoards(c, ref block);
                         timings.Ticks[s] += Stopwatch.GetTimestamp() - t0;
+                        timings.Bytes[s] += GC.GetAllocatedBytesForCurrentThread() - m0;
                     }
                 }
             }

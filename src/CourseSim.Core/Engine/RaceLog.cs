@@ -7,7 +7,12 @@ public sealed class RaceLog
     public List<RaceIncident> Incidents { get; private set; } = new();
     public List<double>[] Splits { get; private set; }
 
-    public RaceLog(int boards) => Splits = Enumerable.Range(0, boards).Select(_ => new List<double>()).ToArray();
+    /// <summary>Room for the events of a typical race up front (tens per board), so the step does not grow the list.</summary>
+    public RaceLog(int boards)
+    {
+        Splits = Enumerable.Range(0, boards).Select(_ => new List<double>(16)).ToArray();
+        Events = new List<RaceEvent>(64 * Math.Max(1, boards));
+    }
 
     public void Add(double timeS, int board, RaceEventKind kind, double x, double y, string detail = "") =>
         Events.Add(new RaceEvent(timeS, board, kind, x, y, detail));

@@ -13,6 +13,11 @@ public sealed class StepSnapshot
 {
     public readonly int Count;
     public readonly double[] X, Y, Heading, Track, Speed, FromDeg, Tws, AppFromDeg, AppDownX, AppDownY;
+    /// <summary>The track angle (rad), its sine and cosine, and the unit vector of the heading as a compass bearing: filled at lookout steps by <see cref="PrepareLookout"/> for the rules' predictions.</summary>
+    public readonly double[] TrackSin, TrackCos, HeadX, HeadY;
+    // The track's sine and cosine as the integrator keeps them (Motion), copied every step; the track angle is worked
+    // out from them only at lookout steps, when the rules need it.
+    readonly double[] _rawSin, _rawCos;
     public readonly int[] NextStep;
     /// <summary>Racing or before the start (not finished, not out of the race).</summary>
     public readonly bool[] Live;
@@ -25,6 +30,7 @@ public sealed class StepSnapshot
         Count = n;
         X = new double[n]; Y = new double[n]; Heading = new double[n]; Track = new double[n]; Speed = new double[n];
         FromDeg = new double[n]; Tws = new double[n]; AppFromDeg = new double[n]; AppDownX = new double[n]; AppDownY = new double[n];
+        TrackSin = new double[n]; TrackCos = new double[n]; _rawSin = new double[n]; _rawCos = new double[n]; HeadX = new double[n]; HeadY = new double[n];
         NextStep = new int[n];
         Live = new bool[n]; Finished = new bool[n]; Tacking = new bool[n]; Capsized = new bool[n]; Busy = new bool[n]; KeepingClear = new bool[n];
     }
@@ -43,7 +49,7 @@ public sealed class StepSnapshot
                 Live[b] = st[i].State is not (RaceState.Finished or RaceState.NotFinished);
                 Finished[b] = st[i].State == RaceState.Finished;
                 X[b] = pose[i].X; Y[b] = pose[i].Y; Heading[b] = pose[i].Heading;
-                Track[b] = Math.Atan2(mo[i].TrackSin, mo[i].TrackCos); Speed[b] = mo[i].Speed;
+                _rawSin[b] = mo[i].TrackSin; _rawCos[b] = mo[i].TrackCos; Speed[b] = mo[i].Speed;
                 FromDeg[b] = sw[i].TrueFromDeg; Tws[b] = sw[i].TrueSpeed;
                 AppFromDeg[b] = Units.Unit.WrapDeg360(Units.Unit.RadToDeg(pose[i].Heading + trim[i].ApparentAngleRad));
                 AppDownX[b] = trim[i].AppDownX; AppDownY[b] = trim[i].AppDownY;
@@ -59,11 +65,27 @@ public sealed class StepSnapshot
         }
     }
 
+    /// <summary>
+    /// The trigonometry the rules' predictions need for every pair and every candidate course, computed once per board
+    /// (exactly the expressions the predictions would otherwise compute again and again).
+    /// </summary>
+    public void PrepareLookout()
+    {
+        for (int b = 0; b < Count; b++)
+        {
+            Track[b] = Math.Atan2(_rawSin[b], _rawCos[b]);
+            TrackSin[b] = Math.Sin(Track[b]); TrackCos[b] = Math.Cos(Track[b]);
+            var f = Courses.Vec2.FromBearing(Units.Unit.RadToDeg(Heading[b]));
+            HeadX[b] = f.X; HeadY[b] = f.Y;
+        }
+    }
+
     public void CopyFrom(StepSnapshot o)
     {
         TimeS = o.TimeS;
         foreach (var (dst, src) in new[] { (X, o.X), (Y, o.Y), (Heading, o.Heading), (Track, o.Track), (Speed, o.Speed), (FromDeg, o.FromDeg),
-                     (Tws, o.Tws), (AppFromDeg, o.AppFromDeg), (AppDownX, o.AppDownX), (AppDownY, o.AppDownY) }) Array.Copy(src, dst, Count);
+                     (Tws, o.Tws), (AppFromDeg, o.AppFromDeg), (AppDownX, o.AppDownX), (AppDownY, o.AppDownY),
+                     (TrackSin, o.TrackSin), (TrackCos, o.TrackCos), (HeadX, o.HeadX), (HeadY, o.HeadY), (_rawSin, o._rawSin), (_rawCos, o._rawCos) }) Array.Copy(src, dst, Count);
         Array.Copy(o.NextStep, NextStep, Count);
         foreach (var (dst, src) in new[] { (Live, o.Live), (Finished, o.Finished), (Tacking, o.Tacking), (Capsized, o.Capsized), (Busy, o.Busy), (KeepingClear, o.KeepingClear) })
             Array.Copy(src, dst, Count);

@@ -65,10 +65,13 @@ public static class Judge
     /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track ha
     /// (rad) at va (m/s), b holding its present track and speed (tracks, not headings: leeway is large at low speed).
     /// </summary>
-    public static (double T, double D) Cpa(StepSnapshot s, int a, double ha, double va, int b)
+    public static (double T, double D) Cpa(StepSnapshot s, int a, double ha, double va, int b) => Cpa(s, a, Math.Sin(ha), Math.Cos(ha), va, b);
+
+    /// <summary><see cref="Cpa(StepSnapshot, int, double, double, int)"/> with the track's sine and cosine given.</summary>
+    public static (double T, double D) Cpa(StepSnapshot s, int a, double sinHa, double cosHa, double va, int b)
     {
         double rx = s.X[b] - s.X[a], ry = s.Y[b] - s.Y[a];
-        double vx = s.Speed[b] * Math.Sin(s.Track[b]) - va * Math.Sin(ha), vy = s.Speed[b] * Math.Cos(s.Track[b]) - va * Math.Cos(ha);
+        double vx = s.Speed[b] * s.TrackSin[b] - va * sinHa, vy = s.Speed[b] * s.TrackCos[b] - va * cosHa;
         double vv = vx * vx + vy * vy;
         double t = vv < 1e-9 ? 0 : Math.Clamp(-(rx * vx + ry * vy) / vv, 0, Lookout.LookaheadS);
         double dx = rx + vx * t, dy = ry + vy * t;
@@ -76,14 +79,16 @@ public static class Judge
     }
 
     /// <summary>Relative speed of b seen from a (a making good track h at v), m/s.</summary>
-    public static double ClosingSpeed(StepSnapshot s, int a, double h, double v, int b)
+    public static double ClosingSpeed(StepSnapshot s, int a, double h, double v, int b) => ClosingSpeed(s, Math.Sin(h), Math.Cos(h), v, b);
+
+    public static double ClosingSpeed(StepSnapshot s, double sinH, double cosH, double v, int b)
     {
-        double vx = s.Speed[b] * Math.Sin(s.Track[b]) - v * Math.Sin(h), vy = s.Speed[b] * Math.Cos(s.Track[b]) - v * Math.Cos(h);
+        double vx = s.Speed[b] * s.TrackSin[b] - v * sinH, vy = s.Speed[b] * s.TrackCos[b] - v * cosH;
         return Math.Sqrt(vx * vx + vy * vy);
     }
 
     /// <summary>The hull-to-hull gap a give-way rider aims to keep when passing, m.</summary>
-    public static double PassClear(StepSnapshot s, int a, double h, double v, int b) => Lookout.PassClearM + Lookout.PassClearPerMs * ClosingSpeed(s, a, h, v, b);
+    public static double PassClear(StepSnapshot s, double sinH, double cosH, double v, int b) => Lookout.PassClearM + Lookout.PassClearPerMs * ClosingSpeed(s, sinH, cosH, v, b);
 
     /// <summary>The track (rad) from board a at speed v that meets the point astern of board b where b will then be.</summary>
     public static double DuckTrack(RaceContext c, int a, int b, double v)
@@ -91,7 +96,7 @@ public static class Judge
         var s = c.Snapshot;
         double back = 0.5 * c.Fleet.LengthM[b] + Lookout.PassClearM + 2;
         double px = s.X[b] - back * Math.Sin(s.Heading[b]), py = s.Y[b] - back * Math.Cos(s.Heading[b]);
-        double vx = s.Speed[b] * Math.Sin(s.Track[b]), vy = s.Speed[b] * Math.Cos(s.Track[b]);
+        double vx = s.Speed[b] * s.TrackSin[b], vy = s.Speed[b] * s.TrackCos[b];
         // Lead: two passes of the fixed-point estimate of the meeting time.
         double t = 0;
         for (int i = 0; i < 2; i++)
@@ -105,29 +110,41 @@ public static class Judge
     /// <summary>
     /// Smallest gap between the two hulls over the next seconds (sampled every half second to 6 s), board a making
     /// good track h at speed v and b holding its track and speed (with the acceleration read at the lookout), each hull
-    /// along its heading.
+    /// along its heading. Exact when the gap is below <paramref name="below"/>; otherwise some value not below it (an
+    /// instant whose centres are too far apart for the hulls to come within it is not worked out: the look-ahead's
+    /// callers only use the gap when it falls short of the clearance they want).
     /// </summary>
-    public static double PredictedHullGap(RaceContext c, int a, double h, double v, int b)
+    public static double PredictedHullGap(RaceContext c, int a, double h, double sinH, double cosH, double v, int b, double below = double.PositiveInfinity)
     {
         var s = c.Snapshot;
         double la = c.Fleet.LengthM[a], lb = c.Fleet.LengthM[b], accB = c.LookoutAccel[b];
-        double ha = Unit.RadToDeg(h), hb = Unit.RadToDeg(s.Heading[b]);
-        double sa = Math.Sin(h), ca = Math.Cos(h), sb = Math.Sin(s.Track[b]), cb = Math.Cos(s.Track[b]);
+        var fa = Vec2.FromBearing(Unit.RadToDeg(h));
+        double fbx = s.HeadX[b], fby = s.HeadY[b];
+        double sb = s.TrackSin[b], cb = s.TrackCos[b];
         // The turn onto h takes time (a slow board turns at the rate the rig can steer it, a fast one carves quicker;
         // model value 20 + 8 deg/s per m/s, at most 70 deg/s): until it is made, a moves along the bisector.
         double turn = Unit.WrapRadPi(h - s.Track[a]);
         double turnS = Math.Abs(Unit.RadToDeg(turn)) / Math.Clamp(20 + 8 * s.Speed[a], 20, Tuning.MaxYawDegPerS);
         double mid = s.Track[a] + 0.5 * turn, sm = Math.Sin(mid), cm = Math.Cos(mid), vNow = Math.Max(s.Speed[a], 0.5);
+        double halves = 0.5 * (la + lb);
+        double ka = 0.5 * la, kb = 0.5 * lb;
         double gap = double.PositiveInfinity;
         for (int i = 0; i <= 12; i++)
         {
             double tau = 0.5 * i;
             double db = Math.Max(0, s.Speed[b] * tau + 0.5 * accB * tau * tau); // b's run along its track, with its acceleration
             double inTurn = Math.Min(tau, turnS), after = tau - inTurn;
-            double ax = s.X[a] + vNow * inTurn * sm + v * after * sa, ay = s.Y[a] + vNow * inTurn * cm + v * after * ca;
-            var ra = new RuleBoard(ax, ay, ha, la);
-            var rb = new RuleBoard(s.X[b] + db * sb, s.Y[b] + db * cb, hb, lb);
-            gap = Math.Min(gap, RightOfWay.HullDistance(ra, rb));
+            double ax = s.X[a] + vNow * inTurn * sm + v * after * sinH, ay = s.Y[a] + vNow * inTurn * cm + v * after * cosH;
+            double bx = s.X[b] + db * sb, by = s.Y[b] + db * cb;
+            // No hull point is nearer than the centres' distance less the half lengths.
+            double cx = bx - ax, cy = by - ay;
+            if (Math.Sqrt(cx * cx + cy * cy) - halves >= below) continue;
+            // The hulls as stern-to-bow segments (the arithmetic of RuleBoard.Stern and Bow).
+            var ca = new Vec2(ax, ay); var cbv = new Vec2(bx, by);
+            var p1 = ca - ka * fa; var q1 = ca + ka * fa;
+            var fbv = new Vec2(fbx, fby);
+            var p2 = cbv - kb * fbv; var q2 = cbv + kb * fbv;
+            gap = Math.Min(gap, RightOfWay.SegmentDistance(p1, q1, p2, q2));
         }
         return gap;
     }

@@ -53,6 +53,8 @@ public sealed class Lookout : RaceSystem
     public override string Writes => "GiveWay, own foreseen conflicts, events";
 
     readonly List<int> _threats = new();
+    // The give-way events' texts, made once per (other board, rule): the step allocates none once they are made.
+    readonly Dictionary<long, string> _texts = new();
 
     public override void RunBoards(RaceContext c, ref BoardBlock blk)
     {
@@ -73,12 +75,13 @@ public sealed class Lookout : RaceSystem
     {
         _threats.Clear();
         var s = c.Snapshot;
+        double sinH = Math.Sin(h), cosH = Math.Cos(h);
         foreach (int j in c.Grid.Neighbours(k))
         {
             long key = RaceContext.PairKey(k, j);
-            var (t, d) = Judge.Cpa(s, k, h, v, j);
+            var (t, d) = Judge.Cpa(s, k, sinH, cosH, v, j);
             // Faster closing, wider berth (the same rule of thumb as the passing gap).
-            double m = margin + ConflictPerMs * Judge.ClosingSpeed(s, k, h, v, j);
+            double m = margin + ConflictPerMs * Judge.ClosingSpeed(s, sinH, cosH, v, j);
             if (d >= m || t >= LookaheadS)
             {
                 // No conflict: forget one this rider had foreseen as theirs.
@@ -171,9 +174,13 @@ public sealed class Lookout : RaceSystem
                 // Luffing, a board coasts to a stop over a few seconds (mean speed over the next three seconds about 60 %
                 // of the present one); sheeting out on a run hardly slows it (model values).
                 double v = tack ? TackAwaySpeedShare * va : gybe ? GybeAwaySpeedShare * va : slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.6 : 0.85) * s.Speed[k] : va;
-                double worst = double.PositiveInfinity;
-                if (other) foreach (int j in neighbours) worst = Math.Min(worst, Judge.PredictedHullGap(c, k, h, v, j) - Judge.PassClear(s, k, h, v, j));
-                else foreach (int j in _threats) worst = Math.Min(worst, Judge.PredictedHullGap(c, k, h, v, j) - Judge.PassClear(s, k, h, v, j));
+                // Only a shortfall of clearance counts in the score, so each gap need be exact only below the clearance.
+                double worst = double.PositiveInfinity, sinH = Math.Sin(h), cosH = Math.Cos(h);
+                foreach (int j in other ? neighbours : System.Runtime.InteropServices.CollectionsMarshal.AsSpan(_threats))
+                {
+                    double clear = Judge.PassClear(s, sinH, cosH, v, j);
+                    worst = Math.Min(worst, Judge.PredictedHullGap(c, k, h, sinH, cosH, v, j, clear) - clear);
+                }
                 double score = (tack ? 0 : Math.Abs(off)) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (tack ? TackAwayCharge : 0)
                              + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);
                 if (gw.On && (slow == 1) == (gw.Power == 0) && Math.Abs(Unit.WrapRadPi(h - gw.Heading)) < Unit.DegToRad(6)) score -= 15;
@@ -183,14 +190,16 @@ public sealed class Lookout : RaceSystem
     }
 
     /// <summary>A new give-way episode (or the same rider now keeping clear of another board, or under another rule).</summary>
-    static void Start(RaceContext c, int k, ref GiveWay gw, double pendingAt, int other, byte rule)
+    void Start(RaceContext c, int k, ref GiveWay gw, double pendingAt, int other, byte rule)
     {
         if (gw.On && gw.Other == other && gw.Rule == rule) return;
         if (!gw.On) gw.AtS = c.Time + c.Fleet.ReactionS[k];
         gw.On = true; gw.Other = other; gw.Rule = rule; gw.Episodes++;
         if (!double.IsNaN(pendingAt)) gw.AtS = Math.Min(gw.AtS, pendingAt); // seen while deciding: acted on with it
         var s = c.Snapshot;
-        c.Log.Add(c.Time, k, RaceEventKind.GiveWay, s.X[k], s.Y[k],
-            rule == Judge.Rule16 ? $"puts off a tack or gybe near {c.Fleet.Names[other]} (rule 16)" : $"keeps clear of {c.Fleet.Names[other]} (rule {Judge.RuleText[rule]})");
+        long key = ((long)other << 8) | rule;
+        if (!_texts.TryGetValue(key, out var text))
+            _texts[key] = text = rule == Judge.Rule16 ? $"puts off a tack or gybe near {c.Fleet.Names[other]} (rule 16)" : $"keeps clear of {c.Fleet.Names[other]} (rule {Judge.RuleText[rule]})";
+        c.Log.Add(c.Time, k, RaceEventKind.GiveWay, s.X[k], s.Y[k], text);
     }
 }

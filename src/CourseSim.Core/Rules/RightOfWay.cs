@@ -90,9 +90,11 @@ public static class RightOfWay
     }
 
     /// <summary>Closest distance (m) between the hulls of two boards, each taken as the segment from stern to bow.</summary>
-    public static double HullDistance(in RuleBoard a, in RuleBoard b)
+    public static double HullDistance(in RuleBoard a, in RuleBoard b) => SegmentDistance(a.Stern, a.Bow, b.Stern, b.Bow);
+
+    /// <summary>Closest distance (m) between segments p1-q1 and p2-q2 (0 when they cross).</summary>
+    public static double SegmentDistance(Vec2 p1, Vec2 q1, Vec2 p2, Vec2 q2)
     {
-        var p1 = a.Stern; var q1 = a.Bow; var p2 = b.Stern; var q2 = b.Bow;
         if (Segment.Crosses(p1, q1, p2, q2, out _)) return 0;
         return Math.Min(Math.Min(PointToSegment(p1, p2, q2), PointToSegment(q1, p2, q2)), Math.Min(PointToSegment(p2, p1, q1), PointToSegment(q2, p1, q1)));
     }

@@ -84,7 +84,7 @@ public sealed class Race
         _c.Snapshot.Capture(_c.All, Time);
         // Room for the whole race's samples up front (no growing in the step): the estimated duration with a margin.
         _c.Recorder = new Recorder(fleet.Count, Settings.RecordIntervalS, Time,
-            (int)Math.Min(1 << 20, (Settings.CountdownS + Math.Min(Settings.TimeLimitS, 1.5 * EstimatedDurationS + 120)) / Settings.RecordIntervalS) + 2);
+            (int)Math.Min(1 << 20, (Settings.CountdownS + Math.Min(Settings.TimeLimitS, 2.5 * EstimatedDurationS + 300)) / Settings.RecordIntervalS) + 2);
     }
 
     public RigPolar RigOf(int board) => _c.Fleet.Polars[board];

@@ -23,6 +23,7 @@ public sealed class SnapshotSystem : RaceSystem
         var s = c.Snapshot;
         s.Capture(c.All, c.Time);
         if (!c.IsLookoutStep) return;
+        s.PrepareLookout();
         double interval = c.LookoutEvery * c.Dt;
         for (int b = 0; b < s.Count; b++)
         {
