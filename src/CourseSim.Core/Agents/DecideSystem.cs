@@ -1,6 +1,7 @@
 using System.Reflection;
 using CourseSim.Courses;
 using CourseSim.Engine;
+using CourseSim.Rules;
 using CourseSim.Units;
 
 namespace CourseSim.Agents;

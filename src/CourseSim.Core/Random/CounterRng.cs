@@ -30,6 +30,15 @@ public readonly record struct CounterRng(ulong Seed, ulong Stream)
     /// <summary>Uniform on [0, 1) with 53 random bits.</summary>
     public double Uniform(ulong counter) => (Bits(counter) >> 11) * (1.0 / 9007199254740992.0);
 
+    /// <summary>Two independent standard normals from one Box-Muller pair (uniforms at counters 2c and 2c+1): half the cost of two <see cref="Normal"/> calls.</summary>
+    public (double A, double B) NormalPair(ulong counter)
+    {
+        double u1 = 1.0 - Uniform(2 * counter), u2 = Uniform(2 * counter + 1);
+        double r = Math.Sqrt(-2.0 * Math.Log(u1));
+        var (sn, cs) = Math.SinCos(2 * Math.PI * u2);
+        return (r * cs, r * sn);
+    }
+
     /// <summary>Standard normal (Box-Muller on counters 2c and 2c+1).</summary>
     public double Normal(ulong counter)
     {

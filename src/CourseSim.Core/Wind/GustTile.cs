@@ -40,7 +40,9 @@ public sealed class GustTile
                 double amp = (fi == 0 && fj == 0) ? 0 : Math.Pow(1 + k2 * l * l, -4.0 / 6.0);
                 resolved += amp * amp * dk * dk;
                 ulong n = (ulong)(i * size + j);
-                c[i * size + j] = new Complex(amp * rng.Normal(2 * n), amp * rng.Normal(2 * n + 1));
+                // Real and imaginary parts from one Box-Muller pair (independent standard normals).
+                var (re, im) = rng.NormalPair(n);
+                c[i * size + j] = new Complex(amp * re, amp * im);
             }
         }
         // 2-D inverse FFT as rows then columns (MathNet's managed provider has no multi-dimensional transform).

@@ -22,6 +22,23 @@ public class WindFieldTests
 
     // Sampled mean speed and turbulence intensity match the inputs (mean within 2%, intensity within 15%).
     [Fact]
+    public void TheTabulatedShiftFollowsTheSumOfItsSines()
+    {
+        // The table is filled by rotating each component's phasor (re-anchored every 256 entries): it must match the
+        // direct sum of sines (OscillatingShift) to the table's single precision, everywhere a race can read it.
+        var f = new WindField(new WindSettings { ShiftAmplitudeDeg = 12, ShiftPeriodS = 300, ShiftIrregularity = 0.5 }, 4);
+        double worst = 0;
+        for (double tau = -7000; tau < 21000; tau += 0.73)
+        {
+            double exact = f.OscillatingShift(tau);
+            // Linear interpolation of a 0.5 s table of a 300 s oscillation: the chord error is below
+            // amp (w dt)^2 / 8 = 12 x (2 pi 0.5 / 300)^2 / 8 = 1.6e-4 deg with the shortest period present (x4 for irregularity).
+            worst = Math.Max(worst, Math.Abs(f.TabulatedShift(tau) - exact));
+        }
+        Assert.True(worst < 3e-3, $"largest difference {worst:E2} deg");
+    }
+
+    [Fact]
     public void MeanAndIntensityMatchInputs()
     {
         var f = new WindField(GustOnly, 11);

@@ -1,10 +1,10 @@
 using CourseSim.Engine;
 using CourseSim.Units;
 
-namespace CourseSim.Agents;
+namespace CourseSim.Rules;
 
 /// <summary>
-/// Serving a one-turn penalty (RRS 44.1 as changed by Appendix B), as soon as the board is racing and well clear of
+/// Serving a one-turn penalty (the rider's part; the judge awards it in ContactSystem) (RRS 44.1 as changed by Appendix B), as soon as the board is racing and well clear of
 /// others: one full turn made of a tack and a gybe, the same way round: head up to close-hauled, tack, bear away, gybe
 /// back onto the original tack. The tack and the gybe each wait until the rider is well clear.
 /// </summary>
