@@ -9,8 +9,8 @@ public sealed record ReportOptions
 {
     public int Repeats { get; init; } = 3;
     public int BigBoards { get; init; } = 2000;
-    public double AfterStartS { get; init; } = 240;
-    public bool BigTimings { get; init; } = true;
+    public double AfterStartS { get; init; } = 120;
+    public bool BigTimings { get; init; }
     public int BatchRaces { get; init; } = 12;
     public int Threads { get; init; } = 2;
 }
@@ -140,8 +140,10 @@ public static class RaceReport
         double[] bounds = [0, 60, 60 + 4000 / demo.Race.StepHz, double.PositiveInfinity];
         var run = RaceRun.Time(demo, cache.For, names, bounds);
         for (int p = 0; p < names.Length; p++)
-            Console.WriteLine($"  {names[p],-32} {run.Bytes[p],12} B over {run.BoardSteps[p],9} board-steps = {run.BytesPerBoardStep(p),8:F3} B/board-step");
+            Console.WriteLine($"  {names[p],-32} {run.Bytes[p],12} B over {run.BoardSteps[p],9} board-steps = {run.BytesPerBoardStep(p),8:F3} B/board-step; {run.Events[p],5} events/incidents logged");
         Console.WriteLine($"  steady stretch: {run.BytesPerBoardStep(2):F3} B/board-step (target 0: {Stats.Verdict(run.Bytes[2] == 0)}); whole race {run.TotalBytesPerBoardStep:F3} B/board-step");
+        Console.WriteLine($"  recorder room: {run.RecorderStartBytes / 1024.0:F0} KiB after construction (sized from the engine's estimate of {run.EstimatedS:F0} s), " +
+                          $"{run.RecorderEndBytes / 1024.0:F0} KiB at the end (race ended at {run.EndTimeS:F0} s)");
         Console.WriteLine("  (the BenchmarkDotNet view of the same: --filter '*SteadyRaceBenchmarks*', Allocated column = bytes per board-step)");
     }
 
@@ -153,17 +155,17 @@ public static class RaceReport
         var r40 = RunScaledWindow(demo, 40, 9, o.AfterStartS, cache, t40);
         SystemTimings? tBig = null; RaceRun? rBig = null;
         if (o.BigTimings) { tBig = new SystemTimings(); rBig = RunScaledWindow(demo, o.BigBoards, 9, o.AfterStartS, cache, tBig); }
-        Console.WriteLine($"  system                   40 boards ns/board-step (share)   {(tBig is null ? "" : $"{o.BigBoards} boards ns/board-step (share)")}");
+        Console.WriteLine($"  system                   40 boards: wall ns/board-step (share)  share x CPU ns/board-step   {(tBig is null ? "" : $"{o.BigBoards} boards: wall (share)  share x CPU")}");
         double sum40 = Enumerable.Range(0, t40.Names.Length).Sum(i => t40.NsPerBoardStep(i, 40));
         double sumBig = tBig is null ? 0 : Enumerable.Range(0, tBig.Names.Length).Sum(i => tBig.NsPerBoardStep(i, o.BigBoards));
         for (int i = 0; i < t40.Names.Length; i++)
         {
             double a = t40.NsPerBoardStep(i, 40);
-            string big = tBig is null ? "" : $"{tBig.NsPerBoardStep(i, o.BigBoards),12:F1} ({100 * tBig.NsPerBoardStep(i, o.BigBoards) / sumBig,5:F1} %)";
-            Console.WriteLine($"  {t40.Names[i],-24} {a,12:F1} ({100 * a / sum40,5:F1} %)          {big}");
+            string big = tBig is null ? "" : $"{tBig.NsPerBoardStep(i, o.BigBoards),12:F1} ({100 * tBig.NsPerBoardStep(i, o.BigBoards) / sumBig,5:F1} %)  {tBig.NsPerBoardStep(i, o.BigBoards) / sumBig * rBig!.TotalNsPerBoardStep,9:F1}";
+            Console.WriteLine($"  {t40.Names[i],-24} {a,12:F1} ({100 * a / sum40,5:F1} %)          {a / sum40 * r40.TotalNsPerBoardStep,12:F1}             {big}");
         }
         Console.WriteLine($"  {"sum of systems",-24} {sum40,12:F1}                    {(tBig is null ? "" : $"{sumBig,12:F1}")}");
         Console.WriteLine($"  same runs on the thread CPU clock (whole step): {r40.TotalNsPerBoardStep:F1} ns/board-step{(rBig is null ? "" : $"; {rBig.TotalNsPerBoardStep:F1}")} " +
-                          "(the wall-clock sums above include time other processes held the core)");
+                          "(the wall-clock sums include time other processes held the core; the shares are spread over the CPU figure in the third column)");
     }
 }
