@@ -60,8 +60,9 @@ public static class Fleets
     {
         // Constant density along the line (4 m per board), so the scaling shows cost per board, not crowding.
         double line = Math.Min(10000, Math.Max(260, 4.0 * boards));
-        // A far waypoint 40 km up the wind: the fleet races (beating, tacking on the laylines) and never finishes.
-        var setup = ScenarioFile.LoadRace(ScenarioPath(), ["race.time_limit_s=36000", "course.kind=waypoints", "course.order=far",
+        // A far waypoint 40 km up the wind: the fleet races (beating, tacking on the laylines) and never finishes. The time
+        // limit and a 10 s record interval keep the recorder's up-front room (sized to the race) small at 2,000 boards.
+        var setup = ScenarioFile.LoadRace(ScenarioPath(), ["race.time_limit_s=7200", "race.record_interval_s=10", "course.kind=waypoints", "course.order=far",
             "course.marks.far.x_m=-28000", "course.marks.far.y_m=-28000", $"course.start_line_m={line}"]);
         var list = new List<BoardEntry>();
         for (int i = 0; i < boards; i++)
@@ -104,41 +105,14 @@ public class RaceStepBenchmarks
     }
 }
 
-/// <summary>Plain figures without BenchmarkDotNet: `dotnet run -c Release --project tools/CourseSim.Benchmarks -- report`.</summary>
-public static class Report
+/// <summary>Memory figures and the entity store's raw speed (printed at the end of `report`).</summary>
+public static class MemoryFigures
 {
     public static void Run()
     {
-        Console.WriteLine($"machine: {System.Environment.ProcessorCount} cores, {System.Runtime.InteropServices.RuntimeInformation.OSDescription}, .NET {System.Environment.Version}");
-        Console.WriteLine("race step, one core, shadows on (fleet past the start, beating up a 40 km leg; line 4 m per board):");
-        Console.WriteLine("  boards   ns/board-step best / median of 5   M board-steps/s best / median   system by system (ns/board-step, timed separately):");
-        Console.WriteLine("                                                                            sense  decide  trim+forces  integrate  manoeuvres  progress  rules");
-        foreach (int n in new[] { 10, 40, 200, 500, 2000 })
-        {
-            var race = Fleets.Make(n);
-            while (race.Time < 30) race.Step();
-            int steps = Math.Clamp(1_000_000 / n, 200, 40_000);
-            // Warm up well past the runtime's tiering (dynamic PGO recompiles the hot methods after their first calls),
-            // on a throw-away race so the measured one starts fresh.
-            var warmup = Fleets.Make(n);
-            for (int i = 0; i < 3 * steps && !warmup.IsOver; i++) warmup.Step();
-            // The real step (one fused pass per board), five stretches: this VM is shared, so best and median are shown.
-            var runs = new List<double>();
-            for (int r = 0; r < 5; r++)
-            {
-                // Keep the fleet racing: a fresh race (untimed) before any board nears the far mark.
-                if (race.Time + steps * race.Dt > 6000) { race = Fleets.Make(n); while (race.Time < 30) race.Step(); }
-                var sw = Stopwatch.StartNew();
-                for (int i = 0; i < steps; i++) race.Step();
-                runs.Add(sw.Elapsed.TotalMilliseconds * 1e6 / (steps * (double)n));
-            }
-            runs.Sort();
-            race.Timings = new SystemTimings();
-            for (int i = 0; i < steps / 2; i++) race.Step();
-            var t = race.Timings;
-            Console.WriteLine($"  {n,6}   {runs[0],10:F0} / {runs[2],4:F0}               {1e3 / runs[0],10:F2} / {1e3 / runs[2],4:F2}              {t.NsPerBoardStep(0, n),5:F0}  {t.NsPerBoardStep(1, n),6:F0}  {t.NsPerBoardStep(2, n),11:F0}  {t.NsPerBoardStep(3, n),9:F0}  {t.NsPerBoardStep(4, n),10:F0}  {t.NsPerBoardStep(5, n),8:F0}  {t.NsPerBoardStep(6, n),5:F0}");
-        }
-        // Memory: heap growth per board (world, components, cold arrays, shadow grid and the recorder's first block).
+        Console.WriteLine();
+        Console.WriteLine("== memory and entity store");
+        // Heap growth per board (world, components, cold arrays, shadow grid and the recorder's room).
         GC.Collect(); GC.WaitForPendingFinalizers(); GC.Collect();
         var warm = Fleets.Make(12); warm.Step();
         long m0 = GC.GetTotalMemory(true);
@@ -146,11 +120,10 @@ public static class Report
         long m1 = GC.GetTotalMemory(true);
         var big = Fleets.Make(1100);
         long m2 = GC.GetTotalMemory(true);
-        Console.WriteLine($"memory per board: {(m2 - m1) / 1000.0 / 1024:F1} KiB (of which the recorder's first 256 samples: {256 * Recorder.BytesPerSample / 1024.0:F1} KiB)");
-        Console.WriteLine($"memory per recorded sample: {Recorder.BytesPerSample} B (one board at one instant; 0.5 s default interval)");
-        Console.WriteLine($"heap for a 100-board race: {(m1 - m0) / 1024.0 / 1024:F1} MiB (wind field, tables shared by set-up, boards)");
+        Console.WriteLine($"  memory per board: {(m2 - m1) / 1000.0 / 1024:F1} KiB (recorder room sized to the race: {small.Recorder.MemoryBytes / 100.0 / 1024:F1} KiB a board for this 7,200 s limit at one sample per 10 s)");
+        Console.WriteLine($"  memory per recorded sample: {Recorder.BytesPerSample} B (one board at one instant; 0.5 s default interval)");
+        Console.WriteLine($"  heap for a 100-board race: {(m1 - m0) / 1024.0 / 1024:F1} MiB (wind field, tables shared by set-up, boards)");
         GC.KeepAlive(small); GC.KeepAlive(big); GC.KeepAlive(warm);
-        // Entity store.
         var w = new World();
         for (int i = 0; i < 1_000_000; i++) w.Create(new EntityStoreBenchmarks.Pos { X = i }, new EntityStoreBenchmarks.Vel { X = 1 }, new EntityStoreBenchmarks.Acc { Y = -1 });
         var q = w.Query().With<EntityStoreBenchmarks.Pos>().With<EntityStoreBenchmarks.Vel>().With<EntityStoreBenchmarks.Acc>();
@@ -162,6 +135,6 @@ public static class Report
                 var p = c.Span<EntityStoreBenchmarks.Pos>(); var v = c.Span<EntityStoreBenchmarks.Vel>(); var a = c.Span<EntityStoreBenchmarks.Acc>();
                 for (int i = 0; i < p.Length; i++) { v[i].Y += a[i].Y * 0.05; p[i].X += v[i].X * 0.05; }
             }
-        Console.WriteLine($"entity store: {rounds * 1e6 / esw.Elapsed.TotalSeconds / 1e6:F0} M entities/s for a 3-component query (chunk spans, 1 M entities)");
+        Console.WriteLine($"  entity store: {rounds * 1e6 / esw.Elapsed.TotalSeconds / 1e6:F0} M entities/s for a 3-component query (chunk spans, 1 M entities, wall clock)");
     }
 }

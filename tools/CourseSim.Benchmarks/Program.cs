@@ -8,15 +8,84 @@ namespace CourseSim.Benchmarks;
 
 /// <summary>
 /// Benchmarks. Run all: dotnet run -c Release --project tools/CourseSim.Benchmarks -- --filter '*'
-/// Quick plain figures for the engine: dotnet run -c Release --project tools/CourseSim.Benchmarks -- report
+/// Plain figures of the engine (issue 17), each beside a bare integrator measured in the same run:
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- report [--repeats N] [--big-boards N] [--after-start-s S]
+///       [--big-timings] [--batch-races N] [--threads T]
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- report-batch [--races N] [--threads T]   (N = 1000: the full batch)
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- race-loop [RACES]   (the 40-board demo raced again and
+///       again on one thread after a warm-up race, for a profiler: DOTNET_PerfMapEnabled=1 perf record -g -p PID)
 /// Figures are printed, never asserted in tests (see DEVELOPERS.md).
 /// </summary>
 public static class Program
 {
-    public static void Main(string[] args)
+    /// <summary>The 40-board demo, whole races one after another on this thread (one shared rig cache), for profiling.</summary>
+    static int RaceLoop(string[] args)
     {
-        if (args.Length == 1 && args[0] == "report") { Report.Run(); return; }
-        BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+        int races = 5;
+        if (args.Length > 2 || args.Length == 2 && (!int.TryParse(args[1], out races) || races < 1))
+        {
+            Console.Error.WriteLine($"error: race-loop: expected a number of races (a whole number from 1), got '{string.Join(' ', args.Skip(1))}'");
+            return 2;
+        }
+        var rigs = new CourseSim.Equilibrium.RigCache();
+        new Race(Demo.Fleet40("race.time_limit_s=60"), rigs.For).Run();
+        Console.WriteLine($"race-loop: pid {System.Environment.ProcessId}, warm; racing the 40-board demo {races} times");
+        for (int i = 0; i < races; i++)
+        {
+            double t0 = Machine.ThreadCpuS();
+            var race = new Race(Demo.Fleet40(), rigs.For);
+            race.Run();
+            Console.WriteLine($"  race {i + 1}: {Machine.ThreadCpuS() - t0:F2} s CPU, ends at {race.Time:F1} s");
+        }
+        return 0;
+    }
+
+    public static int Main(string[] args)
+    {
+        if (args.Length >= 1 && args[0] == "race-loop") return RaceLoop(args);
+        if (args.Length == 0 || (args[0] != "report" && args[0] != "report-batch"))
+        {
+            BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+            return 0;
+        }
+        var opts = new ReportOptions();
+        int races = 40;
+        for (int i = 1; i < args.Length; i++)
+        {
+            string a = args[i];
+            int Int(int min, int max)
+            {
+                if (i + 1 >= args.Length || !int.TryParse(args[i + 1], out int v) || v < min || v > max)
+                    throw new ArgumentException($"option {a}: expected a whole number from {min} to {max}, got '{(i + 1 < args.Length ? args[i + 1] : "")}'");
+                i++;
+                return v;
+            }
+            try
+            {
+                switch (a)
+                {
+                    case "--repeats": opts = opts with { Repeats = Int(1, 50) }; break;
+                    case "--big-boards": opts = opts with { BigBoards = Int(41, 5000) }; break;
+                    case "--after-start-s": opts = opts with { AfterStartS = Int(61, 3000) }; break;
+                    case "--big-timings": opts = opts with { BigTimings = true }; break;
+                    case "--batch-races": opts = opts with { BatchRaces = Int(1, 100_000) }; break;
+                    case "--races": races = Int(1, 100_000); break;
+                    case "--threads": opts = opts with { Threads = Int(1, 256) }; break;
+                    default: throw new ArgumentException($"unknown option '{a}' for {args[0]} (see the top of tools/CourseSim.Benchmarks/Program.cs)");
+                }
+            }
+            catch (ArgumentException e)
+            {
+                Console.Error.WriteLine($"error: {e.Message}");
+                return 2;
+            }
+        }
+        Machine.PrintHeader();
+        if (args[0] == "report-batch") { BatchReport.Run(races, opts.Threads); return 0; }
+        RaceReport.Run(opts);
+        BatchReport.Run(opts.BatchRaces, opts.Threads);
+        MemoryFigures.Run();
+        return 0;
     }
 }
 
