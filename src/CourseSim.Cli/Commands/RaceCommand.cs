@@ -266,15 +266,11 @@ public static class RaceCommand
     });
 }
 
-/// <summary>Writes a file through a temporary file in the same folder and a rename, so a crash never leaves half a file.</summary>
+/// <summary>Writes a file through a temporary file in the same folder, flushed to disk before the rename, so a crash
+/// or a power cut never leaves half a file and a failed write leaves no temporary file (<see cref="CourseSim.Storage.DurableFile"/>).</summary>
 public static class AtomicFile
 {
-    public static void WriteAllBytes(string path, byte[] bytes)
-    {
-        string tmp = path + ".tmp";
-        File.WriteAllBytes(tmp, bytes);
-        File.Move(tmp, path, true);
-    }
+    public static void WriteAllBytes(string path, byte[] bytes) => CourseSim.Storage.DurableFile.Write(path, bytes);
 
     public static void WriteAllText(string path, string text) => WriteAllBytes(path, new UTF8Encoding(false).GetBytes(text));
 }

@@ -7,7 +7,7 @@ namespace CourseSim.Tests.Experiments;
 public class BatchTests
 {
     /// <summary>A small experiment in a temporary folder: a three-board windward-leeward and two variants.</summary>
-    static string MakeExperiment(string extra = "", string variantB = "boards.a.equipment=" + "\"LIGHT78\"")
+    internal static string MakeExperiment(string extra = "", string variantB = "boards.a.equipment=" + "\"LIGHT78\"")
     {
         string dir = Directory.CreateTempSubdirectory("cs-batch-").FullName;
         File.WriteAllText(Path.Combine(dir, "race.toml"), EngineTestKit.SteadyWind(13).Replace("gust_intensity = 0", "gust_intensity = 0.1")
