@@ -24,8 +24,7 @@ public static class ViewCommand
     /// <summary>Reads and checks a replay for the viewer: a missing, malformed or truncated file is a usage error naming it.</summary>
     public static ReplayData LoadReplay(string path)
     {
-        if (!File.Exists(path)) throw new UsageException($"replay '{path}' not found");
-        try { return ReplayFile.Read(File.ReadAllBytes(path), path); }
+        try { return ReplayInput.Load(path); }
         catch (ReplayException e) { throw new UsageException(e.Message); }
     }
 

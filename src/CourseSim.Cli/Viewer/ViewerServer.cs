@@ -150,7 +150,7 @@ public sealed class ViewerServer : IAsyncDisposable
                 if (stamp != _stamp)
                 {
                     _stamp = stamp;
-                    try { _json = ViewerData.Json(ReplayFile.Read(File.ReadAllBytes(path), path)); _error = ""; }
+                    try { _json = ViewerData.Json(ReplayInput.Load(path)); _error = ""; }
                     catch (Exception e) when (e is ReplayException or IOException) { _error = e.Message; _json = ""; }
                 }
                 return _error.Length > 0 ? ("", _error) : (_json, null);
