@@ -113,9 +113,9 @@ public static class InitCommand
         ("wind.gust_intensity", "0.1"), ("wind.shadows", "true"),
         ("race.countdown_s", "60"), ("race.time_limit_s", "1800"), ("race.start_time_utc", Q("2026-08-20T17:30:00Z")), ("race.seed", "1"),
         ("course.kind", Q("windward-leeward")), ("course.laps", "2"), ("course.beat_m", "600"), ("course.start_line_m", "150"),
-        ("boards.jonna.equipment", Q("equipment/jonna-70.toml")), ("boards.jonna.name", Q("Jonna Vell")), ("boards.jonna.tactic", Q("header-tack")),
-        ("boards.jonna.params.header_deg", "6"),
-        ("boards.bram.equipment", Q("equipment/bram-84.toml")), ("boards.bram.name", Q("Bram Kestell")), ("boards.bram.tactic", Q("vmg-layline")),
+        ("boards.jonna.equipment", Q("equipment/jonna-70.toml")), ("boards.jonna.name", Q("Jonna Vell")), ("boards.jonna.tactic", Q("vmg-layline")),
+        ("boards.bram.equipment", Q("equipment/bram-84.toml")), ("boards.bram.name", Q("Bram Kestell")), ("boards.bram.tactic", Q("header-tack")),
+        ("boards.bram.params.header_deg", "6"),
     ]);
 
     static string Experiment() => Write(CourseSim.Experiments.ExperimentFile.Schema,
@@ -125,7 +125,8 @@ public static class InitCommand
     [
         ("name", Q("Jonna: headers or laylines")), ("description", Q("A coach's question on the Ostrin Sound evening race")),
         ("scenario", Q("scenario.toml")), ("races", "20"), ("seed", "11"), ("focus", Q("jonna")),
-        ("variants.headers.description", Q("tack on 6-degree headers (as in the scenario)")), ("variants.headers.set", Q("")),
-        ("variants.laylines.description", Q("sail to the laylines")), ("variants.laylines.set", Q("boards.jonna.tactic=vmg-layline")),
+        ("variants.laylines.description", Q("sail to the laylines (as in the scenario)")), ("variants.laylines.set", Q("")),
+        ("variants.headers.description", Q("tack on 6-degree headers")),
+        ("variants.headers.set", Q("boards.jonna.tactic=header-tack; boards.jonna.params.header_deg=6")),
     ]);
 }

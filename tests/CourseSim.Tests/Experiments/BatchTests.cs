@@ -123,7 +123,7 @@ public class ExperimentStatisticsTests
     /// paired races, a 95 % interval should call about 5 % of them "significant" (the nominal false-positive rate);
     /// the observed rate's Wilson interval must contain 5 %.
     /// </summary>
-    [Fact]
+    [Fact, Trait("Category", Slow.Category)]
     public void TheFalsePositiveRateOfAaExperimentsIsNearTheNominalLevel()
     {
         var path = Folder(Short(12, $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n[boards.b]\nequipment = \"{EngineTestKit.Equip("heavy-70.toml")}\"\n"),
