@@ -52,6 +52,12 @@ public static class ViewCommand
         Action<System.Runtime.InteropServices.PosixSignalContext> onSignal = c => { c.Cancel = true; stop.Cancel(); };
         using var sigint = System.Runtime.InteropServices.PosixSignalRegistration.Create(System.Runtime.InteropServices.PosixSignal.SIGINT, onSignal);
         using var sigterm = System.Runtime.InteropServices.PosixSignalRegistration.Create(System.Runtime.InteropServices.PosixSignal.SIGTERM, onSignal);
+        return ServeUntilStopped(host, port, path, live, stdout, stderr, whileServing, stop);
+    }
+
+    static int ServeUntilStopped(string host, int port, string? path, LiveFeed? live, TextWriter stdout, TextWriter stderr,
+        Action<CancellationToken>? whileServing, CancellationTokenSource stop)
+    {
         {
             ViewerServer server;
             try { server = ViewerServer.StartAsync(host, port, path, live).GetAwaiter().GetResult(); }

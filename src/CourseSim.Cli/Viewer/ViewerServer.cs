@@ -71,6 +71,8 @@ public sealed class ViewerServer : IAsyncDisposable
         builder.Logging.ClearProviders();
         // The command owns the signals (SIGINT, SIGTERM): the host's console lifetime must not take them.
         builder.Services.AddSingleton<Microsoft.Extensions.Hosting.IHostLifetime, QuietLifetime>();
+        // Stopping waits at most a second for requests under way (an open live stream ends at once, below).
+        builder.Services.Configure<Microsoft.Extensions.Hosting.HostOptions>(o => o.ShutdownTimeout = TimeSpan.FromSeconds(1));
         builder.WebHost.ConfigureKestrel(k => k.Listen(address, port));
         var app = builder.Build();
         var replay = replayPath is null ? null : new ReplayCache(replayPath);
@@ -110,17 +112,24 @@ public sealed class ViewerServer : IAsyncDisposable
             {
                 ctx.Response.Headers.ContentType = "text/event-stream";
                 if (HttpMethods.IsHead(ctx.Request.Method)) return;
-                await ctx.Response.WriteAsync($"event: setup\ndata: {live.Setup}\n\n", ctx.RequestAborted);
-                int sent = 0;
-                while (!ctx.RequestAborted.IsCancellationRequested)
+                // The stream ends when the page goes away or the server stops.
+                using var gone = CancellationTokenSource.CreateLinkedTokenSource(ctx.RequestAborted, app.Lifetime.ApplicationStopping);
+                var token = gone.Token;
+                try
                 {
-                    var (msgs, ended) = live.From(sent);
-                    foreach (var m in msgs) await ctx.Response.WriteAsync($"data: {m}\n\n", ctx.RequestAborted);
-                    sent += msgs.Count;
-                    await ctx.Response.Body.FlushAsync(ctx.RequestAborted);
-                    if (ended && msgs.Count == 0) break;
-                    await Task.Delay(200, ctx.RequestAborted);
+                    await ctx.Response.WriteAsync($"event: setup\ndata: {live.Setup}\n\n", token);
+                    int sent = 0;
+                    while (!token.IsCancellationRequested)
+                    {
+                        var (msgs, ended) = live.From(sent);
+                        foreach (var m in msgs) await ctx.Response.WriteAsync($"data: {m}\n\n", token);
+                        sent += msgs.Count;
+                        await ctx.Response.Body.FlushAsync(token);
+                        if (ended && msgs.Count == 0) break;
+                        await Task.Delay(200, token);
+                    }
                 }
+                catch (OperationCanceledException) { /* the page went away or the server is stopping */ }
             });
         app.MapFallback((HttpContext ctx) => Results.Text("not found: this server serves only the viewer and its replay\n", "text/plain", statusCode: 404));
         await app.StartAsync();

@@ -37,12 +37,31 @@ public class ResumeTests
     [Fact]
     public void RunsWithoutAManifestAreNotTakenOnTrust()
     {
-        var spec = ExperimentFile.Load(BatchTests.MakeExperiment(), null, 2);
-        string dir = Directory.CreateTempSubdirectory("cs-rm-").FullName;
-        BatchRunner.Run(spec, dir, 2, false);
+        var spec = ExperimentFile.Load(Fresh.Value.Exp, null, 3);
+        string dir = CopyOfFresh();
         File.Delete(BatchManifest.PathIn(dir));
         var e = Assert.Throws<SettingsException>(() => BatchRunner.Run(spec, dir, 1, true));
         Assert.Contains("no manifest", e.Message);
+    }
+
+    /// <summary>One uninterrupted batch of three races per variant, shared: each test works on its own copy.</summary>
+    static readonly Lazy<(string Exp, string Dir, string Csv)> Fresh = new(() =>
+    {
+        string exp = BatchTests.MakeExperiment(), dir = Directory.CreateTempSubdirectory("cs-rfresh-").FullName;
+        var csv = BatchRunner.ResultsCsv(BatchRunner.Run(ExperimentFile.Load(exp, null, 3), dir, 2, false));
+        return (exp, dir, csv);
+    });
+
+    static string CopyOfFresh()
+    {
+        string to = Directory.CreateTempSubdirectory("cs-rcopy-").FullName;
+        foreach (var f in Directory.GetFiles(Fresh.Value.Dir, "*", SearchOption.AllDirectories))
+        {
+            string target = Path.Combine(to, Path.GetRelativePath(Fresh.Value.Dir, f));
+            Directory.CreateDirectory(Path.GetDirectoryName(target)!);
+            File.Copy(f, target);
+        }
+        return to;
     }
 
     [Theory]
@@ -51,9 +70,8 @@ public class ResumeTests
     [InlineData("no checksum")]
     public void AnEmptyOrDamagedRunFileIsReportedAndRacedAgain(string harm)
     {
-        var spec = ExperimentFile.Load(BatchTests.MakeExperiment(), null, 3);
-        string dir = Directory.CreateTempSubdirectory("cs-rd-").FullName;
-        string expected = BatchRunner.ResultsCsv(BatchRunner.Run(spec, dir, 2, false));
+        var spec = ExperimentFile.Load(Fresh.Value.Exp, null, 3);
+        string dir = CopyOfFresh(), expected = Fresh.Value.Csv;
         string victim = BatchRunner.RunFile(dir, "other", 1);
         string text = File.ReadAllText(victim);
         File.WriteAllText(victim, harm switch
@@ -108,9 +126,8 @@ public class ResumeTests
     [Fact]
     public void AFullDiskStopsWithAPlainMessageLeavesNoTemporaryFileAndResumes()
     {
-        var spec = ExperimentFile.Load(BatchTests.MakeExperiment(), null, 3);
-        string full = Directory.CreateTempSubdirectory("cs-rf-").FullName, dir = Directory.CreateTempSubdirectory("cs-rf-").FullName;
-        string expected = BatchRunner.ResultsCsv(BatchRunner.Run(spec, full, 2, false));
+        var spec = ExperimentFile.Load(Fresh.Value.Exp, null, 3);
+        string dir = Directory.CreateTempSubdirectory("cs-rf-").FullName, expected = Fresh.Value.Csv;
         // The manifest and two races (two files each) fit; the next write finds the disk full.
         var disk = new FullDisk(5);
         var e = Assert.Throws<IOException>(() => BatchRunner.Run(spec, dir, 1, false, open: disk.Open));

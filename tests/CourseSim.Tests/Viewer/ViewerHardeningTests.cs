@@ -160,3 +160,27 @@ public partial class ViewerHardeningTests(ViewerFixture fx) : IClassFixture<View
         finally { if (!p.HasExited) p.Kill(); }
     }
 }
+
+/// <summary>An open live stream does not hold the server up when it stops (a browser tab left open, then SIGTERM).</summary>
+[Collection(ViewerCollection.Name)]
+public class ViewerStopTests
+{
+    [Fact]
+    public async Task StoppingWithALiveStreamOpenTakesUnderTwoSeconds()
+    {
+        var race = new CourseSim.Engine.Race(CourseSim.Tests.Engine.EngineTestKit.Demo(["race.time_limit_s=600"]));
+        var feed = new LiveFeed(race);
+        var server = await ViewerServer.StartAsync("127.0.0.1", 0, null, feed);
+        using var stop = new CancellationTokenSource();
+        var run = Task.Run(() => feed.Run(1, stop.Token)); // paced: the stream stays open
+        using var http = new HttpClient { Timeout = TimeSpan.FromSeconds(30) };
+        using var stream = await http.GetStreamAsync(new Uri(server.Url, "live"));
+        using var reader = new StreamReader(stream);
+        Assert.StartsWith("event: setup", await reader.ReadLineAsync());
+        var clock = Stopwatch.StartNew();
+        await server.DisposeAsync();
+        Assert.True(clock.Elapsed < TimeSpan.FromSeconds(2), $"stopped after {clock.Elapsed.TotalSeconds:0.0} s");
+        stop.Cancel();
+        await run;
+    }
+}
