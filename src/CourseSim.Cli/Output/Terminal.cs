@@ -14,7 +14,7 @@ public static class Terminal
             Ansi = redirected ? AnsiSupport.No : AnsiSupport.Detect,
             ColorSystem = redirected ? ColorSystemSupport.NoColors : ColorSystemSupport.Detect,
         });
-        if (redirected || console.Profile.Width < minWidth) console.Profile.Width = Math.Max(minWidth, redirected ? 160 : console.Profile.Width);
+        if (redirected || console.Profile.Width < minWidth) console.Profile.Width = Math.Max(minWidth, redirected ? FitWidth(writer) : console.Profile.Width);
         return console;
     }
 
