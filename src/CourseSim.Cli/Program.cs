@@ -16,6 +16,11 @@ public static class Program
         root.Subcommands.Add(RaceCommand.Build(stdout, stderr));
         root.Subcommands.Add(BatchCommand.Build(stdout, stderr));
         root.Subcommands.Add(ViewCommand.Build(stdout, stderr));
+        root.Subcommands.Add(TacticsCommand.Build(stdout, stderr));
+        root.Subcommands.Add(KeysCommand.Build(stdout, stderr));
+        root.Subcommands.Add(InitCommand.Build(stdout, stderr));
+        // Alone, the command prints its help (and exits 0) rather than an error.
+        if (args.Length == 0) args = ["--help"];
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {

@@ -39,6 +39,7 @@ public static class BatchCommand
         Console.CancelKeyPress += onCancel;
         var clock = Stopwatch.StartNew();
         IReadOnlyList<RaceRow> rows = [];
+        Action<string> warn = m => { lock (stderr) stderr.WriteLine("batch: " + m); };
         try
         {
             bool interactive = stdout == Console.Out && !Console.IsOutputRedirected && !Console.IsErrorRedirected;
@@ -55,7 +56,7 @@ public static class BatchCommand
                             double rate = (p.Done - p.Resumed) / Math.Max(clock.Elapsed.TotalSeconds, 1e-9);
                             task.Description = $"{p.Done}/{p.Total} races, {rate:0.0}/s";
                             task.Value = p.Done;
-                        }, cts.Token);
+                        }, cts.Token, warn);
                     });
             }
             else
@@ -70,7 +71,7 @@ public static class BatchCommand
                     double rate = (p.Done - p.Resumed) / Math.Max(clock.Elapsed.TotalSeconds, 1e-9);
                     double left = rate > 0 ? (p.Total - p.Done) / rate : double.NaN;
                     lock (stderr) stderr.WriteLine($"batch: {p.Done}/{p.Total} races ({rate:0.0} races/s{(double.IsNaN(left) ? "" : $", about {left:0} s left")})");
-                }, cts.Token);
+                }, cts.Token, warn);
             }
         }
         finally { Console.CancelKeyPress -= onCancel; }

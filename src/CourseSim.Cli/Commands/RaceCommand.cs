@@ -49,7 +49,7 @@ public static class RaceCommand
             return ExitCodes.Ok;
         }
         var console = Terminal.For(stdout);
-        console.Write(ResultsTable(race, result, name));
+        console.Write(ResultsTable(race, result, name, Terminal.FitWidth(stdout)));
         console.MarkupLine("[grey]T/G/F: tacks, gybes, falls. km: distance sailed from the signal. Legs from the signal.[/]");
         if (result.Incidents.Count > 0) console.Write(IncidentsTable(race, result));
         else console.MarkupLine("[grey]No contact between boards.[/]");
@@ -117,12 +117,12 @@ public static class RaceCommand
         });
     }
 
-    static Table ResultsTable(Race race, RaceResult result, string name)
+    static Table ResultsTable(Race race, RaceResult result, string name, int width)
     {
-        var t = new Table().Border(TableBorder.Simple)
-            .Title($"[bold]{Markup.Escape(name)}[/]: {Markup.Escape(race.Course.Kind)}, {race.BoardCount} boards, seed {race.Seed}");
-        (string Header, bool Right)[] columns = [("place", true), ("board", false), ("elapsed", true), ("gap", true), ("legs (m:ss)", false),
-            ("km", true), ("avg kn", true), ("T/G/F", true), ("notes", false)];
+        string title = $"[bold]{Markup.Escape(name)}[/]: {Markup.Escape(race.Course.Kind)}, {race.BoardCount} boards, seed {race.Seed}";
+        // On a narrow terminal whole columns are left out (legs first), never digits: results.csv has every column.
+        FitColumn[] columns = [new("place", true, 0), new("board", false, 0), new("elapsed", true, 0), new("gap", true, 3), new("legs (m:ss)", false, 5),
+            new("km", true, 4), new("avg kn", true, 2), new("T/G/F", true, 1), new("notes", false, 0, Wraps: true)];
         var rows = new List<string[]>();
         foreach (var b in result.ByPlace)
         {
@@ -136,17 +136,8 @@ public static class RaceCommand
                 b.GapS is double g ? "+" + Clock(g) : "-", Legs(b.SplitsS), F(b.DistanceM / 1000, "0.00"), F(b.AverageSpeedMs / 0.514444, "0.0"),
                 string.Create(CultureInfo.InvariantCulture, $"{b.Tacks}/{b.Gybes}/{b.Falls}"), string.Join("; ", notes)]);
         }
-        // Fixed widths from the contents, so the table keeps every value on one line when it fits the terminal.
-        for (int c = 0; c < columns.Length; c++)
-        {
-            int width = Math.Max(columns[c].Header.Length, rows.Count == 0 ? 0 : rows.Max(r => r[c].Length));
-            var col = new TableColumn(columns[c].Header).NoWrap().Width(Math.Max(1, width));
-            t.AddColumn(columns[c].Right ? col.RightAligned() : col);
-        }
-        foreach (var r in rows) t.AddRow(r.Select(Markup.Escape).ToArray());
-        return t;
+        return TableFit.Build(title, columns, rows, width);
     }
-
 
     /// <summary>Every contact: when (from the signal), where, who was to keep clear, under which rule, and the outcome.</summary>
     static Table IncidentsTable(Race race, RaceResult result)
@@ -266,15 +257,11 @@ public static class RaceCommand
     });
 }
 
-/// <summary>Writes a file through a temporary file in the same folder and a rename, so a crash never leaves half a file.</summary>
+/// <summary>Writes a file through a temporary file in the same folder, flushed to disk before the rename, so a crash
+/// or a power cut never leaves half a file and a failed write leaves no temporary file (<see cref="CourseSim.Storage.DurableFile"/>).</summary>
 public static class AtomicFile
 {
-    public static void WriteAllBytes(string path, byte[] bytes)
-    {
-        string tmp = path + ".tmp";
-        File.WriteAllBytes(tmp, bytes);
-        File.Move(tmp, path, true);
-    }
+    public static void WriteAllBytes(string path, byte[] bytes) => CourseSim.Storage.DurableFile.Write(path, bytes);
 
     public static void WriteAllText(string path, string text) => WriteAllBytes(path, new UTF8Encoding(false).GetBytes(text));
 }

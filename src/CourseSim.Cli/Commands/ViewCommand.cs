@@ -14,7 +14,7 @@ public static class ViewCommand
     {
         var file = new Argument<string>("replay") { Description = "replay file (replay.msgpack, written by 'coursesim race')" };
         var port = new Option<int>("--port") { Description = "port to serve on (default: a free port)", DefaultValueFactory = _ => 0 };
-        var host = new Option<string>("--host") { Description = "address to listen on (default 127.0.0.1: this machine only; give 0.0.0.0 explicitly to share on the network)", DefaultValueFactory = _ => "127.0.0.1" };
+        var host = new Option<string>("--host") { Description = "address to listen on: an IPv4 or IPv6 literal or localhost (default 127.0.0.1: this machine only; give 0.0.0.0 or :: explicitly to share on the network)", DefaultValueFactory = _ => "127.0.0.1" };
         var export = new Option<string?>("--export") { Description = "write one self-contained HTML file with the replay inside (opens from disk, no server) and exit" };
         var cmd = new Command("view", "Watch a race in the browser: course, wind, boards, timeline and a panel for the selected board.") { file, port, host, export };
         cmd.SetAction(pr => Run(pr.GetValue(file)!, pr.GetValue(port), pr.GetValue(host)!, pr.GetValue(export), stdout, stderr));
@@ -24,8 +24,7 @@ public static class ViewCommand
     /// <summary>Reads and checks a replay for the viewer: a missing, malformed or truncated file is a usage error naming it.</summary>
     public static ReplayData LoadReplay(string path)
     {
-        if (!File.Exists(path)) throw new UsageException($"replay '{path}' not found");
-        try { return ReplayFile.Read(File.ReadAllBytes(path), path); }
+        try { return ReplayInput.Load(path); }
         catch (ReplayException e) { throw new UsageException(e.Message); }
     }
 
@@ -49,9 +48,16 @@ public static class ViewCommand
     internal static int Serve(string host, int port, string? path, LiveFeed? live, TextWriter stdout, TextWriter stderr, Action<CancellationToken>? whileServing)
     {
         using var stop = new CancellationTokenSource();
-        ConsoleCancelEventHandler onCancel = (_, e) => { e.Cancel = true; stop.Cancel(); };
-        Console.CancelKeyPress += onCancel;
-        try
+        // Ctrl+C (SIGINT) and SIGTERM (a service manager, `kill`) both stop the server cleanly.
+        Action<System.Runtime.InteropServices.PosixSignalContext> onSignal = c => { c.Cancel = true; stop.Cancel(); };
+        using var sigint = System.Runtime.InteropServices.PosixSignalRegistration.Create(System.Runtime.InteropServices.PosixSignal.SIGINT, onSignal);
+        using var sigterm = System.Runtime.InteropServices.PosixSignalRegistration.Create(System.Runtime.InteropServices.PosixSignal.SIGTERM, onSignal);
+        return ServeUntilStopped(host, port, path, live, stdout, stderr, whileServing, stop);
+    }
+
+    static int ServeUntilStopped(string host, int port, string? path, LiveFeed? live, TextWriter stdout, TextWriter stderr,
+        Action<CancellationToken>? whileServing, CancellationTokenSource stop)
+    {
         {
             ViewerServer server;
             try { server = ViewerServer.StartAsync(host, port, path, live).GetAwaiter().GetResult(); }
@@ -60,7 +66,7 @@ public static class ViewCommand
             {
                 if (!System.Net.IPAddress.IsLoopback(server.Address))
                     stderr.WriteLine($"warning: listening on {host}, reachable from other machines on the network");
-                stdout.WriteLine($"Viewer at {server.Url}  (Ctrl+C to stop)");
+                stdout.WriteLine($"Viewer at {server.Url}  (Ctrl+C or SIGTERM to stop)");
                 stdout.Flush();
                 var work = whileServing is null ? Task.CompletedTask : Task.Run(() => whileServing(stop.Token));
                 try { Task.Delay(Timeout.Infinite, stop.Token).Wait(); } catch (AggregateException) { }
@@ -70,6 +76,5 @@ public static class ViewCommand
             finally { server.DisposeAsync().AsTask().GetAwaiter().GetResult(); }
             return ExitCodes.Ok;
         }
-        finally { Console.CancelKeyPress -= onCancel; }
     }
 }

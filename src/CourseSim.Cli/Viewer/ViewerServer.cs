@@ -24,10 +24,21 @@ public static class ViewerAssets
         return r.ReadToEnd();
     }
 
+    /// <summary>The one inline script of the served page (its mode), allowed by hash in the page's CSP.</summary>
+    public static string SourceScript(bool live) => $"window.COURSESIM_SOURCE = {{\"mode\": \"{(live ? "live" : "server")}\"}};";
+
     /// <summary>The page for a server (data from /replay.json, or /live).</summary>
     public static string Page(bool live) =>
-        Text("index.html").Replace("<!--SOURCE-->", $"<script>window.COURSESIM_SOURCE = {{\"mode\": \"{(live ? "live" : "server")}\"}};</script>")
+        Text("index.html").Replace("<!--SOURCE-->", $"<script>{SourceScript(live)}</script>")
             .Replace("<!--STYLE-->", "<link rel=\"stylesheet\" href=\"viewer.css\">").Replace("<!--SCRIPT-->", "<script src=\"viewer.js\"></script>");
+
+    /// <summary>
+    /// The served page's Content-Security-Policy: its own script, style and data only (the inline mode script by hash);
+    /// no other origin, no frames, no forms, no plug-ins.
+    /// </summary>
+    public static string ContentSecurityPolicy(bool live) =>
+        "default-src 'none'; script-src 'self' 'sha256-" + Convert.ToBase64String(System.Security.Cryptography.SHA256.HashData(Encoding.UTF8.GetBytes(SourceScript(live)))) +
+        "'; style-src 'self'; img-src 'self' data:; connect-src 'self'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
 
     /// <summary>One self-contained file: style, script and the replay inside, opening from disk with no server.</summary>
     public static string Export(string json) =>
@@ -53,51 +64,80 @@ public sealed class ViewerServer : IAsyncDisposable
     /// </summary>
     public static async Task<ViewerServer> StartAsync(string host, int port, string? replayPath, LiveFeed? live)
     {
-        if (!IPAddress.TryParse(host, out var address)) throw new UsageException($"--host '{host}' is not an IP address (such as 127.0.0.1 or 0.0.0.0)");
+        var address = HostCheck.Parse(host);
+        if (port is < 0 or > 65535) throw new UsageException($"--port {port} is not a port (0 for a free one, or 1-65535)");
+        var hosts = new HostCheck(host, address);
         var builder = WebApplication.CreateSlimBuilder();
         builder.Logging.ClearProviders();
+        // The command owns the signals (SIGINT, SIGTERM): the host's console lifetime must not take them.
+        builder.Services.AddSingleton<Microsoft.Extensions.Hosting.IHostLifetime, QuietLifetime>();
+        // Stopping waits at most a second for requests under way (an open live stream ends at once, below).
+        builder.Services.Configure<Microsoft.Extensions.Hosting.HostOptions>(o => o.ShutdownTimeout = TimeSpan.FromSeconds(1));
         builder.WebHost.ConfigureKestrel(k => k.Listen(address, port));
         var app = builder.Build();
         var replay = replayPath is null ? null : new ReplayCache(replayPath);
         string page = ViewerAssets.Page(live is not null), js = ViewerAssets.Text("viewer.js"), css = ViewerAssets.Text("viewer.css");
+        string csp = ViewerAssets.ContentSecurityPolicy(live is not null);
         app.Use(async (ctx, next) =>
         {
-            // Only GET (and HEAD) of the few names below; nothing else exists here.
+            // Only GET (and HEAD) of the few names below, asked for by this server's own name; nothing else exists here.
             ctx.Response.Headers["X-Content-Type-Options"] = "nosniff";
             ctx.Response.Headers["Cache-Control"] = "no-store";
+            ctx.Response.Headers["Content-Security-Policy"] = csp;
+            ctx.Response.Headers["Referrer-Policy"] = "no-referrer";
+            ctx.Response.Headers["Cross-Origin-Resource-Policy"] = "same-origin";
+            if (!hosts.Accepts(ctx.Request.Headers.Host.ToString(), out int status))
+            {
+                // A page of another site reaching this port through its own DNS name (DNS rebinding) is refused here.
+                ctx.Response.StatusCode = status;
+                ctx.Response.ContentType = "text/plain";
+                await ctx.Response.WriteAsync(status == 400 ? "bad request: no Host header\n" : "misdirected request: this viewer answers only to " + hosts.Describe() + "\n");
+                return;
+            }
             if (!HttpMethods.IsGet(ctx.Request.Method) && !HttpMethods.IsHead(ctx.Request.Method)) { ctx.Response.StatusCode = 405; return; }
             await next();
         });
-        app.MapGet("/", () => Results.Content(page, "text/html; charset=utf-8"));
-        app.MapGet("/viewer.js", () => Results.Content(js, "text/javascript; charset=utf-8"));
-        app.MapGet("/viewer.css", () => Results.Content(css, "text/css; charset=utf-8"));
+        string[] getHead = [HttpMethods.Get, HttpMethods.Head];
+        app.MapMethods("/", getHead, () => Results.Content(page, "text/html; charset=utf-8"));
+        app.MapMethods("/viewer.js", getHead, () => Results.Content(js, "text/javascript; charset=utf-8"));
+        app.MapMethods("/viewer.css", getHead, () => Results.Content(css, "text/css; charset=utf-8"));
         if (replay is not null)
-            app.MapGet("/replay.json", () =>
+            app.MapMethods("/replay.json", getHead, () =>
             {
                 var (json, error) = replay.Get();
                 return error is null ? Results.Content(json, "application/json; charset=utf-8") : Results.Content(Json.Serialize(new { error }), "application/json; charset=utf-8", statusCode: 422);
             });
         if (live is not null)
-            app.MapGet("/live", async (HttpContext ctx) =>
+            app.MapMethods("/live", getHead, async (HttpContext ctx) =>
             {
                 ctx.Response.Headers.ContentType = "text/event-stream";
-                await ctx.Response.WriteAsync($"event: setup\ndata: {live.Setup}\n\n", ctx.RequestAborted);
-                int sent = 0;
-                while (!ctx.RequestAborted.IsCancellationRequested)
+                if (HttpMethods.IsHead(ctx.Request.Method)) return;
+                // The stream ends when the page goes away or the server stops.
+                using var gone = CancellationTokenSource.CreateLinkedTokenSource(ctx.RequestAborted, app.Lifetime.ApplicationStopping);
+                var token = gone.Token;
+                try
                 {
-                    var (msgs, ended) = live.From(sent);
-                    foreach (var m in msgs) await ctx.Response.WriteAsync($"data: {m}\n\n", ctx.RequestAborted);
-                    sent += msgs.Count;
-                    await ctx.Response.Body.FlushAsync(ctx.RequestAborted);
-                    if (ended && msgs.Count == 0) break;
-                    await Task.Delay(200, ctx.RequestAborted);
+                    await ctx.Response.WriteAsync($"event: setup\ndata: {live.Setup}\n\n", token);
+                    int sent = 0;
+                    while (!token.IsCancellationRequested)
+                    {
+                        var (msgs, ended) = live.From(sent);
+                        foreach (var m in msgs) await ctx.Response.WriteAsync($"data: {m}\n\n", token);
+                        sent += msgs.Count;
+                        await ctx.Response.Body.FlushAsync(token);
+                        if (ended && msgs.Count == 0) break;
+                        await Task.Delay(200, token);
+                    }
                 }
+                catch (OperationCanceledException) { /* the page went away or the server is stopping */ }
             });
         app.MapFallback((HttpContext ctx) => Results.Text("not found: this server serves only the viewer and its replay\n", "text/plain", statusCode: 404));
         await app.StartAsync();
         var bound = app.Services.GetRequiredService<IServer>().Features.Get<IServerAddressesFeature>()!.Addresses.First();
-        var uri = new Uri(bound.Replace("[::]", "127.0.0.1").Replace("0.0.0.0", "127.0.0.1"));
-        return new ViewerServer(app, new Uri($"http://{(address.Equals(IPAddress.Any) ? "127.0.0.1" : address.ToString())}:{uri.Port}/"), address);
+        int boundPort = new Uri(bound.Replace("[::]", "127.0.0.1").Replace("0.0.0.0", "127.0.0.1")).Port;
+        string shown = address.Equals(IPAddress.Any) ? "127.0.0.1" : address.Equals(IPAddress.IPv6Any) ? "[::1]"
+            : address.AddressFamily == System.Net.Sockets.AddressFamily.InterNetworkV6 ? $"[{address}]" : address.ToString();
+        return new ViewerServer(app, new Uri($"http://{shown}:{boundPort}/"), address);
     }
 
     public async ValueTask DisposeAsync() { await _app.StopAsync(); await _app.DisposeAsync(); }
@@ -119,7 +159,7 @@ public sealed class ViewerServer : IAsyncDisposable
                 if (stamp != _stamp)
                 {
                     _stamp = stamp;
-                    try { _json = ViewerData.Json(ReplayFile.Read(File.ReadAllBytes(path), path)); _error = ""; }
+                    try { _json = ViewerData.Json(ReplayInput.Load(path)); _error = ""; }
                     catch (Exception e) when (e is ReplayException or IOException) { _error = e.Message; _json = ""; }
                 }
                 return _error.Length > 0 ? ("", _error) : (_json, null);

@@ -11,6 +11,9 @@ public static class CourseBuilder
 {
     public static readonly string[] Kinds = ["windward-leeward", "trapezoid", "slalom", "waypoints"];
 
+    /// <summary>Shortest leg of a waypoints course, m (common practice: a few board lengths to round and bear away).</summary>
+    public const double MinLegM = 20;
+
     public static IEnumerable<KeySpec> Keys =>
     [
         KeySpec.Text("course.kind", "trapezoid", "the course layout", Kinds),
@@ -130,11 +133,19 @@ public static class CourseBuilder
                         throw f.ErrorAt($"course.marks.{m}.x_m", $"mark '{m}' needs both x_m and y_m (or bearing_deg and distance_m)");
                     marks[m] = new Mark(m, new Vec2(f.Number($"course.marks.{m}.x_m"), f.Number($"course.marks.{m}.y_m")));
                 }
+                if (names.Length > Storage.Limits.MaxList)
+                    throw f.ErrorAt("course.order", $"{names.Length} marks, over the limit of {Storage.Limits.MaxList} {Storage.Limits.Override("COURSESIM_MAX_LIST")}");
                 Vec2 prev = new(0, 0);
                 for (int i = 0; i < names.Length; i++)
                 {
                     if (!marks.TryGetValue(names[i], out var mk))
                         throw f.ErrorAt("course.order", $"unknown mark '{names[i]}'; marks defined: {(known.Count == 0 ? "none" : string.Join(", ", known))}");
+                    // A leg too short to sail (or none: the same mark twice, a mark on the start) makes a course nobody can
+                    // finish: the finish line has no direction to lie across.
+                    double leg = (mk.Position - prev).Length;
+                    if (leg < MinLegM)
+                        throw f.ErrorAt("course.order", $"the leg to '{names[i]}' from {(i == 0 ? "the start line's middle" : $"'{names[i - 1]}'")} is {leg:0.#} m long; " +
+                            $"every leg must be at least {MinLegM} m");
                     if (i == names.Length - 1) steps.Add(FinishAcross("finish", mk.Position, mk.Position - prev));
                     else steps.Add(M(mk, f.Text($"course.marks.{names[i]}.rounding") == "starboard" ? Rounding.Starboard : Rounding.Port));
                     prev = mk.Position;

@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Text;
 using CourseSim.Engine;
 using CourseSim.Simulation;
+using CourseSim.Storage;
 
 namespace CourseSim.Experiments;
 
@@ -81,16 +82,23 @@ public static class BatchRunner
         foreach (var v in spec.Variants)
             for (int i = 0; i < spec.Races; i++)
             {
-                var f = MetricsFile(outDir, v.Name, i);
-                if (File.Exists(f) && File.Exists(RunFile(outDir, v.Name, i))) list.Add((v.Name, i, File.ReadAllText(f).Trim()));
+                if (DurableFile.TryReadSealed(MetricsFile(outDir, v.Name, i), out var m, out _) && DurableFile.TryReadSealed(RunFile(outDir, v.Name, i), out _, out _))
+                    list.Add((v.Name, i, m.Trim()));
             }
         return list;
     }
 
     /// <summary>Runs what is missing; returns the rows of every finished race, in order. Cancelling stops after the races under way.</summary>
+    /// <remarks>
+    /// The resume contract (docs/experiments.md): with <paramref name="resume"/> the folder's manifest must match the
+    /// experiment (else a <see cref="Settings.SettingsException"/> naming what differs); a run file is kept only if its
+    /// checksum holds, and an empty or damaged one is reported through <paramref name="warn"/> and raced again. A write
+    /// that fails (a full disk) stops the batch with an <see cref="IOException"/> saying so; no temporary file is left.
+    /// </remarks>
     public static IReadOnlyList<RaceRow> Run(ExperimentSpec spec, string outDir, int threads, bool resume, Action<BatchProgress>? progress = null,
-        CancellationToken cancel = default)
+        CancellationToken cancel = default, Action<string>? warn = null, DurableFile.Opener? open = null)
     {
+        if (resume) BatchManifest.CheckForResume(spec, outDir);
         var jobs = new List<(Variant V, int Race, int Index)>();
         for (int vi = 0; vi < spec.Variants.Count; vi++)
         {
@@ -98,11 +106,24 @@ public static class BatchRunner
             Directory.CreateDirectory(Path.Combine(outDir, "runs", v.Name));
             for (int i = 0; i < spec.Races; i++) jobs.Add((v, i, vi));
         }
-        var todo = jobs.Where(j => !(resume && File.Exists(RunFile(outDir, j.V.Name, j.Race)))).ToList();
-        if (!resume)
-            foreach (var j in jobs)
-                foreach (var f in new[] { RunFile(outDir, j.V.Name, j.Race), MetricsFile(outDir, j.V.Name, j.Race) })
-                    if (File.Exists(f)) File.Delete(f);
+        // Temporary files are what a crash left mid-write: never a finished race. A fresh batch keeps no old run at all
+        // (runs past this batch's race count would otherwise be taken up by a later --resume with more races).
+        foreach (var f in Directory.EnumerateFiles(Path.Combine(outDir, "runs"), "*", SearchOption.AllDirectories))
+            if (!resume || f.EndsWith(".tmp", StringComparison.Ordinal)) DurableFile.TryDelete(f);
+        var todo = new List<(Variant V, int Race, int Index)>();
+        foreach (var j in jobs)
+        {
+            string run = RunFile(outDir, j.V.Name, j.Race), met = MetricsFile(outDir, j.V.Name, j.Race);
+            if (resume && File.Exists(run))
+            {
+                bool runOk = DurableFile.TryReadSealed(run, out _, out var why), metOk = DurableFile.TryReadSealed(met, out _, out var whyM);
+                if (runOk && metOk) continue;
+                warn?.Invoke($"{(runOk ? met : run)}: {(runOk ? whyM : why)}; racing {j.V.Name} race {j.Race} again");
+            }
+            todo.Add(j);
+            DurableFile.TryDelete(run); DurableFile.TryDelete(met);
+        }
+        BatchManifest.Write(spec, outDir, open);
         int resumed = jobs.Count - todo.Count, done = resumed;
         progress?.Invoke(new BatchProgress(done, jobs.Count, resumed));
         var options = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads), CancellationToken = cancel };
@@ -129,22 +150,27 @@ public static class BatchRunner
                 }
                 var file = RunFile(outDir, job.V.Name, job.Race);
                 // The race's own figures first; the board rows last, as the mark that the race is complete.
-                File.WriteAllText(MetricsFile(outDir, job.V.Name, job.Race) + ".tmp", metrics.ToCsv(job.V.Name, job.Race) + "\n");
-                File.Move(MetricsFile(outDir, job.V.Name, job.Race) + ".tmp", MetricsFile(outDir, job.V.Name, job.Race), true);
-                File.WriteAllText(file + ".tmp", sb.ToString());
-                File.Move(file + ".tmp", file, true);
+                DurableFile.WriteText(MetricsFile(outDir, job.V.Name, job.Race), DurableFile.Seal(metrics.ToCsv(job.V.Name, job.Race) + "\n"), open);
+                DurableFile.WriteText(file, DurableFile.Seal(sb.ToString()), open);
                 int d = Interlocked.Increment(ref done);
                 progress?.Invoke(new BatchProgress(d, jobs.Count, resumed));
             });
         }
         catch (OperationCanceledException) { /* report what finished */ }
+        catch (AggregateException e) when (e.InnerExceptions.OfType<IOException>().FirstOrDefault() is { } io)
+        {
+            string what = DurableFile.IsDiskFull(io) ? "the disk is full" : io.Message;
+            int kept = jobs.Count(j => File.Exists(RunFile(outDir, j.V.Name, j.Race)));
+            throw new IOException($"batch: cannot write the races' results in {outDir}: {what}. The {kept} races finished before it are kept in " +
+                "runs/; free some space and run the same command with --resume to race the rest.", io);
+        }
         var rows = new List<RaceRow>();
         foreach (var j in jobs)
         {
             var file = RunFile(outDir, j.V.Name, j.Race);
-            if (!File.Exists(file)) continue;
+            if (!DurableFile.TryReadSealed(file, out var text, out _)) continue;
             int n = 0;
-            foreach (var line in File.ReadAllLines(file)) rows.Add(RaceRow.Parse(line, file, ++n));
+            foreach (var line in text.Split('\n', StringSplitOptions.RemoveEmptyEntries)) rows.Add(RaceRow.Parse(line, file, ++n));
         }
         return rows;
     }

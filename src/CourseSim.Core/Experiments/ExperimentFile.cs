@@ -61,6 +61,8 @@ public static class ExperimentFile
         if (!File.Exists(full)) throw f.ErrorAt("scenario", $"scenario file '{scen}' not found (looked for {full})");
         var names = f.Names("variants");
         if (names.Count == 0) throw new SettingsException(f.Path, 0, "variants", "an experiment needs at least one [variants.NAME] table");
+        if (names.Count > Storage.Limits.MaxVariants)
+            throw new SettingsException(f.Path, 0, "variants", $"{names.Count} variants, over the limit of {Storage.Limits.MaxVariants} {Storage.Limits.Override("COURSESIM_MAX_VARIANTS")}");
         var variants = new List<Variant>();
         string focus = f.Text("focus");
         foreach (var v in names)

@@ -215,7 +215,7 @@ public static class ReplayFile
                 switch (key)
                 {
                     case "format": format = r.ReadString(); break;
-                    case "version": version = r.ReadInt32(); break;
+                    case "version": long v = r.ReadInt64(); version = v is >= 0 and <= 1000 ? (int)v : -1; break;
                     case "payload": payload = Bytes(ref r); break;
                     case "sha256": hash = Bytes(ref r); break;
                     default: r.Skip(); break;
@@ -230,6 +230,8 @@ public static class ReplayFile
         catch (MessagePackSerializationException e) { throw new ReplayException($"{name}: truncated or malformed replay ({e.Message})"); }
         catch (EndOfStreamException) { throw new ReplayException($"{name}: truncated replay"); }
         catch (InvalidOperationException e) { throw new ReplayException($"{name}: malformed replay ({e.Message})"); }
+        catch (OverflowException) { throw new ReplayException($"{name}: malformed replay (a number is out of range for its field)"); }
+        catch (ArgumentException) { throw new ReplayException($"{name}: malformed replay (a length or count is larger than the file)"); }
     }
 
     static byte[] Bytes(ref MessagePackReader r) => r.ReadBytes() is { } seq ? seq.ToArray() : [];
@@ -267,7 +269,7 @@ public static class ReplayFile
                 case "step_hz": hz = r.ReadDouble(); break;
                 case "interval_s": interval = r.ReadDouble(); break;
                 case "start_s": startS = r.ReadDouble(); break;
-                case "frames": frames = r.ReadInt32(); break;
+                case "frames": frames = ReplayLimits.Count(r.ReadInt64(), "frames", name); break;
                 case "boards":
                     for (int n = r.ReadArrayHeader(), b = 0; b < n; b++)
                     {
@@ -360,15 +362,14 @@ public static class ReplayFile
                 default: r.Skip(); break;
             }
         }
-        int samples = frames * boards.Count;
-        foreach (var (cn, data) in cols)
-            if (data.Length != samples) throw new ReplayException($"{name}: column '{cn}' holds {data.Length} samples, expected {samples} ({frames} frames x {boards.Count} boards)");
-        return new ReplayData
+        var data = new ReplayData
         {
             Version = version, Engine = engine, Scenario = scenario, Venue = venue, OriginLatDeg = lat, OriginLonDeg = lon, Seed = seed,
             StartTimeUtc = start, StepHz = hz, IntervalS = interval, StartS = startS, Frames = frames, Boards = boards, CourseKind = kind,
             CourseAxisDeg = axis, StartLine = startLine, Steps = steps, Columns = cols, Flags = flags, NextStep = next, Events = events, Incidents = incidents,
             Results = results, Wind = wind,
         };
+        ReplayLimits.Check(data, name);
+        return data;
     }
 }

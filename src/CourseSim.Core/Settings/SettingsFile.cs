@@ -29,10 +29,12 @@ public sealed class SettingsFile
 
     public static SettingsFile Load(string path, SettingsSchema schema, IEnumerable<string>? overrides = null, Func<string, bool>? acceptExtra = null)
     {
-        if (!File.Exists(path)) throw new SettingsException(path, 0, null, $"file not found (expected a {schema.Kind} file in TOML)");
+        if (!File.Exists(path) && !System.IO.Directory.Exists(path)) throw new SettingsException(path, 0, null, $"file not found (expected {A(schema.Kind)} file in TOML)");
+        var bytes = Storage.InputFile.TryRead(path, Storage.Limits.MaxInputMb, "COURSESIM_MAX_INPUT_MB", out string problem)
+            ?? throw new SettingsException(path, 0, null, $"{problem} (expected {A(schema.Kind)} file in TOML)");
         string text;
-        try { text = File.ReadAllText(path); }
-        catch (IOException e) { throw new SettingsException(path, 0, null, $"cannot read: {e.Message}"); }
+        try { text = new System.Text.UTF8Encoding(false, true).GetString(bytes).TrimStart('\uFEFF'); }
+        catch (System.Text.DecoderFallbackException) { throw new SettingsException(path, 0, null, $"not UTF-8 text (expected {A(schema.Kind)} file in TOML)"); }
         return Parse(text, path, schema, overrides, acceptExtra);
     }
 
@@ -48,7 +50,7 @@ public sealed class SettingsFile
             throw new SettingsException(path, e.Line ?? 0, null, $"not valid TOML: {msg}");
         }
         table ??= new TomlTable();
-        var lines = KeyLines(text);
+        var lines = TomlKeyLines.Of(text, path);
         var file = new SettingsFile(schema, path);
         foreach (var (key, value) in Flatten(table, ""))
         {
@@ -77,10 +79,14 @@ public sealed class SettingsFile
 
     void Put(string key, object value, string source, int line, Func<string, bool>? acceptExtra)
     {
+        if (key.Split('.').Any(p => p.Length == 0 || p.Contains('*')))
+            throw new SettingsException(source, line, key, key.Contains('*')
+                ? "'*' is not a name: in the key list it stands for a name you choose, so give that name (such as boards.maren.equipment); no key applies to all entries at once"
+                : "a key has no empty part (write table.key)");
         if (!Schema.TryFind(key, out var spec))
         {
             if (acceptExtra?.Invoke(key) == true) { _values[key] = new SettingValue(value, source, line); return; }
-            throw new SettingsException(source, line, key, $"unknown key in a {Schema.Kind} file; known keys here: {string.Join(", ", Schema.KnownKeysNear(key))}");
+            throw new SettingsException(source, line, key, $"unknown key in {A(Schema.Kind)} file; known keys here: {string.Join(", ", Schema.KnownKeysNear(key))}");
         }
         _values[key] = new SettingValue(Check(spec with { Key = key }, value, source, line), source, line);
     }
@@ -100,11 +106,13 @@ public sealed class SettingsFile
             case KeyKind.NumberList:
             {
                 if (value is not TomlArray arr) throw new SettingsException(source, line, spec.Key, $"expected a list of numbers, each {spec.RangeText}");
+                if (arr.Count > Storage.Limits.MaxList)
+                    throw new SettingsException(source, line, spec.Key, $"{arr.Count} items, over the limit of {Storage.Limits.MaxList} {Storage.Limits.Override("COURSESIM_MAX_LIST")}");
                 var list = new List<double>();
                 foreach (var item in arr)
                 {
                     double? d = item switch { long l => l, double x => x, _ => null };
-                    if (d is null || d < spec.Min || d > spec.Max)
+                    if (d is null || double.IsNaN(d.Value) || d < spec.Min || d > spec.Max)
                         throw new SettingsException(source, line, spec.Key, $"list item '{item}' is not a number in {spec.RangeText}");
                     list.Add(d.Value);
                 }
@@ -114,12 +122,15 @@ public sealed class SettingsFile
                 if (value is bool b) return b;
                 throw new SettingsException(source, line, spec.Key, $"expected true or false, got '{value}'");
             default:
+                if (value is Tomlyn.TomlDateTime dt) value = Tomlyn.Helpers.TomlFormatHelper.ToString(dt);
                 if (value is not string s) throw new SettingsException(source, line, spec.Key, $"expected a string ({spec.Help}), got '{value}'");
                 if (spec.Choices is not null && !spec.Choices.Contains(s))
                     throw new SettingsException(source, line, spec.Key, $"'{s}' is not accepted: {spec.RangeText}");
                 return s;
         }
     }
+
+    static string A(string kind) => ("aeiou".Contains(kind[0]) ? "an " : "a ") + kind;
 
     static string Fmt(double d) => d.ToString("G", CultureInfo.InvariantCulture);
 
@@ -131,30 +142,6 @@ public sealed class SettingsFile
             if (kv.Value is TomlTable sub) foreach (var x in Flatten(sub, key + ".")) yield return x;
             else yield return (key, kv.Value);
         }
-    }
-
-    /// <summary>Line of each dotted key: tracks [table] headers and key = value lines (tables of arrays are not used in settings).</summary>
-    static Dictionary<string, int> KeyLines(string text)
-    {
-        var map = new Dictionary<string, int>(StringComparer.Ordinal);
-        string table = "";
-        var lines = text.Split('\n');
-        for (int i = 0; i < lines.Length; i++)
-        {
-            string l = lines[i].Trim();
-            if (l.Length == 0 || l[0] == '#') continue;
-            if (l[0] == '[')
-            {
-                int end = l.IndexOf(']');
-                if (end > 0) table = l[1..end].Trim('[', ' ') + ".";
-                continue;
-            }
-            int eq = l.IndexOf('=');
-            if (eq <= 0) continue;
-            string k = string.Join('.', l[..eq].Split('.').Select(p => p.Trim().Trim('"', '\'')));
-            map.TryAdd(table + k, i + 1);
-        }
-        return map;
     }
 
     public bool Has(string key) => _values.ContainsKey(key);

@@ -66,6 +66,7 @@ public static class ScenarioFile
         string startText = f.Text("race.start_time_utc");
         if (!DateTime.TryParse(startText, CultureInfo.InvariantCulture, DateTimeStyles.AdjustToUniversal | DateTimeStyles.AssumeUniversal, out var start))
             throw f.ErrorAt("race.start_time_utc", $"'{startText}' is not an ISO 8601 time such as 2026-06-14T13:00:00Z");
+        if (start.Year is < 1900 or > 2199) throw f.ErrorAt("race.start_time_utc", $"'{startText}' is out of range: accepted 1900-01-01 to 2199-12-31 (UTC)");
         var race = new RaceSettings
         {
             StepHz = f.Number("race.step_hz"),
@@ -94,6 +95,8 @@ public static class ScenarioFile
         }
         var ids = f.Names("boards");
         if (ids.Count == 0) throw new SettingsException(f.Path, 0, "boards", "a race needs at least one board: add a [boards.NAME] table with equipment = \"file.toml\"");
+        if (ids.Count > Storage.Limits.MaxBoards)
+            throw new SettingsException(f.Path, 0, "boards", $"{ids.Count} boards, over the limit of {Storage.Limits.MaxBoards} {Storage.Limits.Override("COURSESIM_MAX_BOARDS")}");
         var boards = new List<BoardEntry>();
         // Identity, not position: the default spread along the start line follows the boards' ids (their table names)
         // in ordinal order, so reordering the tables of a file changes nothing.

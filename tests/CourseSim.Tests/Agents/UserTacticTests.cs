@@ -70,7 +70,7 @@ public class UserTacticTests
     /// [tactics] table: the coursesim command (a separate process, which never saw the tests' registration) loads it,
     /// and a board sails it. A path that is missing, not an assembly, or an assembly with no tactic is a scenario error.
     /// </summary>
-    [Fact]
+    [Fact, Trait("Category", Slow.Category)]
     public void ACompiledTacticAssemblyNamedInTheScenarioIsLoadedByTheCommand()
     {
         string dir = Directory.CreateTempSubdirectory("coursesim-usertactic-").FullName;

@@ -68,7 +68,7 @@ public class RaceCliTests
 
 public class BatchCliTests
 {
-    [Fact]
+    [Fact, Trait("Category", Slow.Category)]
     public void BatchWritesResultsAndTheDocumentedSummaryFields()
     {
         string dir = Directory.CreateTempSubdirectory("cs-batchcli-").FullName;
@@ -104,7 +104,7 @@ public class BatchKillTests
     /// A batch process killed part way (not cancelled: killed) and then resumed ends with the same results as an
     /// uninterrupted batch: each race is written whole, through a temporary file and a rename, as it ends.
     /// </summary>
-    [Fact]
+    [Fact, Trait("Category", Slow.Category)]
     public void AKilledBatchResumesToTheSameResults()
     {
         string exp = Path.Combine(RepoRoot.Path, "scenarios", "experiments", "korrin-bay-beat-length.toml");

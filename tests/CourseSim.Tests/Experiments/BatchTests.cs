@@ -7,7 +7,7 @@ namespace CourseSim.Tests.Experiments;
 public class BatchTests
 {
     /// <summary>A small experiment in a temporary folder: a three-board windward-leeward and two variants.</summary>
-    static string MakeExperiment(string extra = "", string variantB = "boards.a.equipment=" + "\"LIGHT78\"")
+    internal static string MakeExperiment(string extra = "", string variantB = "boards.a.equipment=" + "\"LIGHT78\"")
     {
         string dir = Directory.CreateTempSubdirectory("cs-batch-").FullName;
         File.WriteAllText(Path.Combine(dir, "race.toml"), EngineTestKit.SteadyWind(13).Replace("gust_intensity = 0", "gust_intensity = 0.1")
@@ -123,7 +123,7 @@ public class ExperimentStatisticsTests
     /// paired races, a 95 % interval should call about 5 % of them "significant" (the nominal false-positive rate);
     /// the observed rate's Wilson interval must contain 5 %.
     /// </summary>
-    [Fact]
+    [Fact, Trait("Category", Slow.Category)]
     public void TheFalsePositiveRateOfAaExperimentsIsNearTheNominalLevel()
     {
         var path = Folder(Short(12, $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n[boards.b]\nequipment = \"{EngineTestKit.Equip("heavy-70.toml")}\"\n"),

@@ -21,7 +21,7 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
         return (race, race.Run());
     }
 
-    [Fact]
+    [Fact, Trait("Category", Slow.Category)]
     public void TheFortyBoardDemoRaceHasNoContactTheGiveWayLogicCouldHaveAvoided()
     {
         var (race, res) = Fleet();
