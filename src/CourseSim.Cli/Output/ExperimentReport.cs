@@ -34,6 +34,9 @@ public static class ExperimentReport
     static string Spr(Spread s) => s.Count == 0 ? "-" : $"{F(s.Median / 60)} ({F(s.P10 / 60)}-{F(s.P90 / 60)})";
     public static readonly Dictionary<string, string> Users = new() { ["rider"] = "For riders", ["organiser"] = "For organisers", ["coach"] = "For coaches" };
 
+    /// <summary>A count's interval: its lower end is not below zero.</summary>
+    static Interval Count(Interval i) => i with { Low = Math.Max(0, i.Low) };
+
     /// <summary>What a race needs, in words.</summary>
     public static string Needed(PairSummary p)
     {
@@ -134,9 +137,10 @@ public static class ExperimentReport
         Row("line bias over the start sequence, mean deg (+ right end)", x => Iv(x.LineBiasDeg));
         Row("line advantage of the right end, mean m", x => Iv(x.LineBiasM, "0"));
         Row("right (boat) end favoured, share of races", x => Pct(x.RightEndFavoured));
-        Row("first beat: share of boards going left", x => Iv(x.ShareLeft, "0", 100) + (double.IsFinite(x.ShareLeft.Estimate) ? " %" : ""));
+        Row("first beat: share of boards going left, mean over races", x => Pct(x.ShareLeft));
         Row("first beat: mean place right minus left (+ left paid)", x => Iv(x.SidePlaceDiff, "0.00") + $", {x.SideRaces} races");
-        Row("contacts per race (avoidable)", x => $"{Iv(x.ContactsPerRace, "0.00")}; {Iv(x.AvoidablePerRace, "0.00")}");
+        Row("contacts per race", x => Iv(Count(x.ContactsPerRace), "0.00"));
+        Row("of which avoidable, per race", x => Iv(Count(x.AvoidablePerRace), "0.00"));
         Row("peak boards within 30 m of a mark, mean", x => F(x.PeakAtMark));
         Row("roundings within 5 s of the one before, per race", x => F(x.CloseArrivals));
         sb.Append("\nIntervals are 95 %: means over races take Student's t, shares of races Wilson's. Race duration: from the signal to the first and to the last finisher. ")
