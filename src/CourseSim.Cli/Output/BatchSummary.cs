@@ -35,8 +35,7 @@ public static class BatchSummary
                 p_a_beats_b = p.WinProbability.Estimate, p_a_beats_b_low = p.WinProbability.Low, p_a_beats_b_high = p.WinProbability.High,
                 significant = p.Significant, races_needed = N(p.Needed.Estimate), races_needed_low = N(p.Needed.Low), races_needed_high = N(p.Needed.High),
                 resolvable_diff_s = N(p.Needed.ResolvableS.Estimate), resolvable_diff_low_s = N(p.Needed.ResolvableS.Low), resolvable_diff_high_s = N(p.Needed.ResolvableS.High),
-                mean_place_diff = p.PlaceDiffT?.Estimate, place_ci_low = p.PlaceDiffT?.Low, place_ci_high = p.PlaceDiffT?.High,
-                place_bootstrap_t_low = p.PlaceDiffBootstrap?.Low, place_bootstrap_t_high = p.PlaceDiffBootstrap?.High }),
+                mean_place_diff = p.PlaceDiffT?.Estimate, place_ci_low = p.PlaceDiffT?.Low, place_ci_high = p.PlaceDiffT?.High }),
             organisers = b.Organisers.Select(o => new
             {
                 variant = o.Variant, races = o.Races, first_finisher_s = Sp(o.FirstFinisherS), last_finisher_s = Sp(o.LastFinisherS),

@@ -68,7 +68,7 @@ public static class ExperimentCharts
         double pad = Math.Max(1, 0.1 * (hi - lo));
         plt.Axes.SetLimitsX(lo - pad, hi + pad);
         var zero = plt.Add.VerticalLine(0); zero.Color = Colors.Gray; zero.LinePattern = LinePattern.Dashed;
-        plt.Title("Paired difference of the board's time, s (95 % t interval)");
+        plt.Title(pairs.Count > 1 ? "Paired difference of the board's time, s (95 % t interval, unadjusted; resolved: after Holm)" : "Paired difference of the board's time, s (95 % t interval)");
         plt.XLabel("seconds (negative: the first variant faster)");
         plt.Axes.Left.TickLabelStyle.IsVisible = false;
         plt.Axes.SetLimitsY(-0.6, Math.Max(1, pairs.Count) - 0.2);
@@ -91,18 +91,18 @@ public static class ExperimentCharts
                 var m = OrganiserFigures.MeanT(perRace);
                 if (!double.IsFinite(m.Estimate)) continue;
                 double err = double.IsFinite(m.High) ? m.High - m.Estimate : 0;
-                bars.Add(new Bar { Position = 3 * i + k, Value = m.Estimate, Error = err, FillColor = PolarCharts.Palette[k], Label = $"{side} {m.Estimate:0.0}" });
+                bars.Add(new Bar { Position = 3 * i + k, Value = m.Estimate, Error = err, FillColor = PolarCharts.Palette[k] });
             }
         }
-        var b = plt.Add.Bars(bars);
-        b.ValueLabelStyle.FontSize = 12;
+        plt.Add.Bars(bars);
         plt.Legend.ManualItems.Add(new LegendItem { LabelText = "went left", FillColor = PolarCharts.Palette[0] });
         plt.Legend.ManualItems.Add(new LegendItem { LabelText = "went right", FillColor = PolarCharts.Palette[1] });
         plt.ShowLegend(Alignment.UpperRight);
         plt.Axes.Bottom.SetTicks(Enumerable.Range(0, spec.Variants.Count).Select(i => 3.0 * i + 0.5).ToArray(), spec.Variants.Select(v => v.Name).ToArray());
         plt.Title("Side fairness: mean place by side taken on the first beat (95 % interval; lower is better)");
         plt.YLabel("mean place");
-        plt.Axes.Margins(bottom: 0);
+        // Room above the tallest error bar for the legend.
+        plt.Axes.SetLimitsY(0, Math.Max(1, bars.Select(x => x.Value + x.Error).DefaultIfEmpty(1).Max() * 1.3));
         return plt.GetImageBytes(900, 420, ImageFormat.Png);
     }
 

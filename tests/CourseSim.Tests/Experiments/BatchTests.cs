@@ -94,7 +94,7 @@ public class BatchTests
     }
 }
 
-public class ExperimentStatisticsTests
+public class ExperimentStatisticsTests(Xunit.Abstractions.ITestOutputHelper output)
 {
     static string Folder(string scenario, string experiment)
     {
@@ -137,14 +137,31 @@ public class ExperimentStatisticsTests
         var two = rows.Where(r => r.Variant == "two" && r.BoardId == "a").OrderBy(r => r.Race).Select(r => r.TimeOrLimitS).ToArray();
         Assert.Equal(1000, one.Length);
         Assert.NotEqual(one, two); // independent winds
-        int significant = 0;
+        // Every interval the report shows for a pair, over 100 A/A experiments of 10 paired races: the time difference's
+        // t and studentised bootstrap intervals, the place difference's t interval, and the win share's Wilson interval
+        // around 1/2.
+        var hits = new int[4];
         for (int k = 0; k < 100; k++)
         {
-            var d = Enumerable.Range(10 * k, 10).Select(i => one[i] - two[i]).ToArray();
-            if (Statistics.PairedT(d).ExcludesZero) significant++;
+            var sub = rows.Where(r => r.Race / 10 == k).ToList();
+            var p = Assert.Single(Comparison.Of(spec, sub, (ulong)k).Pairs);
+            Assert.Equal(10, p.Pairs);
+            if (p.MeanDiffT.ExcludesZero) hits[0]++;
+            if (p.MeanDiffBootstrap.ExcludesZero) hits[1]++;
+            if (p.PlaceDiffT!.Value.ExcludesZero) hits[2]++;
+            if (p.WinProbability.Low > 0.5 || p.WinProbability.High < 0.5) hits[3]++;
+            Assert.Equal(p.MeanDiffT.ExcludesZero, p.Significant); // two variants: no adjustment
         }
-        var rate = Statistics.Wilson(significant, 100);
-        Assert.True(rate.Low <= 0.05 && 0.05 <= rate.High, $"{significant} of 100 A/A experiments significant");
+        string[] names = ["time t", "time studentised bootstrap", "place t", "win share Wilson"];
+        output.WriteLine(string.Join("; ", names.Select((n, i) => $"{n}: {hits[i]} of 100")));
+        for (int i = 0; i < 3; i++)
+        {
+            var rate = Statistics.Wilson(hits[i], 100);
+            Assert.True(rate.Low <= 0.05 && 0.05 <= rate.High, $"{names[i]}: {hits[i]} of 100 A/A experiments resolved");
+        }
+        // The win share of 10 races is a binomial count: Wilson rejects 1/2 only at 0-1 or 9-10 wins of 10 (2.1 % of the
+        // time), so it is conservative there; it must not be liberal.
+        Assert.True(Statistics.Wilson(hits[3], 100).Low <= 0.05, $"{names[3]}: {hits[3]} of 100");
     }
 
     [Fact]
