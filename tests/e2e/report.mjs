@@ -42,7 +42,8 @@ try {
   check("headline first", f.firstSection === "Headline" && f.headline >= 1, `${f.firstSection}, ${f.headline} items`);
   check("headers not squeezed", f.squeezed.length === 0, f.squeezed.join(" | "));
   check("no page-wide overflow", f.pageOverflow <= 0, `${f.pageOverflow} px`);
-  await page.screenshot({ path: shot, fullPage: true });
+  // REPORT_TOP=1: the first screen only (the README's picture); else the whole page.
+  await page.screenshot({ path: shot, fullPage: !process.env.REPORT_TOP });
 } catch (e) {
   check("ran", false, String(e));
 } finally {

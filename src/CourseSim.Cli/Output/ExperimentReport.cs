@@ -79,15 +79,18 @@ public static class ExperimentReport
     {
         bool holm = pairs.Count > 1;
         var sb = new StringBuilder("## Paired differences\n\n");
-        sb.Append($"| a - b | races | mean time difference, s (95 % t) | studentised bootstrap (95 %) | p{(holm ? " (Holm)" : "")} | place difference (95 % t) | a faster in | verdict |\n|---|---|---|---|---|---|---|---|\n");
+        sb.Append($"| a - b | races | mean time difference, s (95 % t) | studentised bootstrap (95 %) | p{(holm ? " (Holm)" : "")} | place difference (95 % t) | a faster in | verdict | resolvable with these races, s | races needed for this difference |\n|---|---|---|---|---|---|---|---|---|---|\n");
         foreach (var p in pairs)
         {
             string pv = holm ? $"{F(p.P, "0.000")} ({F(p.PHolm, "0.000")})" : F(p.P, "0.000");
-            sb.Append(CultureInfo.InvariantCulture, $"| {p.A} - {p.B} | {p.Pairs} | {Iv(p.MeanDiffT)} | {F(p.MeanDiffBootstrap.Low)} to {F(p.MeanDiffBootstrap.High)} | {pv} | {(p.PlaceDiffT is Interval pd ? Iv(pd, "0.00") : "-")} | {Pct(p.WinProbability)} | {(p.Significant ? "resolved" : "not resolved: " + Needed(p))} |\n");
+            var n = p.Needed;
+            string resolvable = double.IsFinite(n.ResolvableS.Estimate) ? $"{F(n.ResolvableS.Estimate, "0")} ({F(n.ResolvableS.Low, "0")}-{F(n.ResolvableS.High, "0")})" : $"- (under {RacesNeededPlanner.MinimumPairs} races)";
+            string needed = p.Significant ? "-" : n.Known ? $"{(n.Capped ? "over " : "")}{F(n.Estimate, "#,0")} ({F(n.Low, "#,0")}-{(n.High >= RacesNeededPlanner.Cap ? "more" : F(n.High, "#,0"))})" : "-";
+            sb.Append(CultureInfo.InvariantCulture, $"| {p.A} - {p.B} | {p.Pairs} | {Iv(p.MeanDiffT)} | {F(p.MeanDiffBootstrap.Low)} to {F(p.MeanDiffBootstrap.High)} | {pv} | {(p.PlaceDiffT is Interval pd ? Iv(pd, "0.00") : "-")} | {Pct(p.WinProbability)} | {(p.Significant ? "resolved" : "not resolved")} | {resolvable} | {needed} |\n");
         }
         sb.Append("\nNegative: a faster. A difference is resolved when its paired t test rejects zero at 5 %");
         sb.Append(holm ? $"; with {pairs.Count} comparisons, after Holm's step-down adjustment of the p-values (family-wise error 5 %), so a t interval that excludes zero may still be unresolved." : " (its 95 % t interval excludes zero).");
-        sb.Append(" Races needed: for 80 % power at the observed difference, with the interval from the standard deviation's.\n\n");
+        sb.Append(" Resolvable: the difference these races resolve at 80 % power; races needed: for 80 % power at the observed difference (omitted below 10 races or for a zero difference); both with the interval from the standard deviation's.\n\n");
         return sb.ToString();
     }
 

@@ -30,7 +30,8 @@ public static class Peeking
     /// <summary>The warning for the report, or null when the results were not looked at before these races ran.</summary>
     public static string? Warning(int looks, int previousRaces, int resumed, int races)
     {
-        if (looks == 0 || resumed == 0) return null;
+        // Only when races ran on top of ones already looked at (a resume that ran nothing adds no look).
+        if (looks == 0 || resumed == 0 || races - resumed <= 0) return null;
         return $"this batch was resumed after a summary of {previousRaces} races was written ({looks} earlier look{(looks == 1 ? "" : "s")}; now {races} races). " +
             "If it was extended because a difference was not yet resolved, the chance of calling a difference that is not there resolved is higher " +
             "than the nominal 5 % (about 8 % with two looks, 14 % with five: Armitage, McPherson and Rowe 1969). Decide the number of races " +

@@ -14,7 +14,7 @@ public static partial class ReportHtml
     const string Style = "body{font-family:system-ui,sans-serif;max-width:1100px;margin:2em auto;padding:0 1em;color:#1d2a33;line-height:1.45}" +
         ".wide{overflow-x:auto;margin:1em 0}table{border-collapse:collapse;font-size:14px}" +
         "td,th{border-bottom:1px solid #c9d3da;padding:4px 10px;text-align:left;vertical-align:top}" +
-        "th{background:#eef3f6;min-width:6em;white-space:normal}td{white-space:nowrap}td:first-child{white-space:normal;min-width:14em}td:last-child:not(:nth-child(2)){white-space:normal;min-width:16em}" +
+        "th{background:#eef3f6;min-width:6em;white-space:normal}td:first-child{min-width:10em}" +
         "ul.headline{background:#f3f7ee;border-left:4px solid #009E73;padding:.6em 1em .6em 2em}img{max-width:100%}" +
         ".warn{background:#fff4e0;border-left:4px solid #E69F00;padding:.5em 1em}blockquote{color:#7a4b00;border-left:4px solid #E69F00;padding-left:1em}";
 

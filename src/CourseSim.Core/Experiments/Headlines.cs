@@ -81,7 +81,7 @@ public static class Headlines
             var s = $"{o.Variant}: median race {F(o.FirstFinisherS.Median / 60)} min to the first finisher (P10-P90 {F(o.FirstFinisherS.P10 / 60)}-{F(o.FirstFinisherS.P90 / 60)}), " +
                 $"{F(o.LastFinisherS.Median / 60)} min to the last";
             if (o.WithinTarget is Interval w) s += $"; within 10 % of the {F(spec.TargetDurationS / 60)}-min target in {Pct(w)}";
-            s += $"; a board still out at the time limit in {Pct(o.SomeNotFinished)}";
+            if (o.SomeNotFinished.Estimate > 0) s += $"; a board still out at the time limit in {Pct(o.SomeNotFinished)}";
             parts.Add(s + ".");
         }
         if (organisers.Count > 0)
