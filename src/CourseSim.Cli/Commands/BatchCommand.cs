@@ -1,6 +1,5 @@
 using System.CommandLine;
 using System.Diagnostics;
-using System.Globalization;
 using CourseSim.Cli.Output;
 using CourseSim.Experiments;
 using Spectre.Console;
@@ -34,6 +33,9 @@ public static class BatchCommand
         var spec = ExperimentFile.Load(path, sets, races);
         string dir = outDir ?? Path.Combine("out", $"batch-{PolarCommand.Slug(spec.Name)}");
         Directory.CreateDirectory(dir);
+        // Looks: how many summaries were written on this folder's races before (a resumed or extended batch was looked at).
+        var (looks, previousRaces) = resume ? Peeking.Previous(Path.Combine(dir, "summary.json")) : (0, 0);
+        int resumed = 0;
         using var cts = new CancellationTokenSource();
         ConsoleCancelEventHandler onCancel = (_, e) => { e.Cancel = true; cts.Cancel(); stderr.WriteLine("batch: stopping after the races under way; the report covers what finished"); };
         Console.CancelKeyPress += onCancel;
@@ -53,6 +55,7 @@ public static class BatchCommand
                         var task = ctx.AddTask("racing", maxValue: Math.Max(1, spec.Races * spec.Variants.Count));
                         rows = BatchRunner.Run(spec, dir, threads, resume, p =>
                         {
+                            resumed = p.Resumed;
                             double rate = (p.Done - p.Resumed) / Math.Max(clock.Elapsed.TotalSeconds, 1e-9);
                             task.Description = $"{p.Done}/{p.Total} races, {rate:0.0}/s";
                             task.Value = p.Done;
@@ -65,6 +68,7 @@ public static class BatchCommand
                 // Redirected output: a plain line every 10 % on the error stream (the bar would print nothing).
                 rows = BatchRunner.Run(spec, dir, threads, resume, p =>
                 {
+                    resumed = p.Resumed;
                     int tenth = p.Total == 0 ? 10 : p.Done * 10 / p.Total;
                     if (tenth == lastShown) return;
                     lastShown = tenth;
@@ -75,46 +79,20 @@ public static class BatchCommand
             }
         }
         finally { Console.CancelKeyPress -= onCancel; }
-        var (variants, pairs) = Comparison.Of(spec, rows, spec.MasterSeed);
+        var metrics = BatchRunner.ReadMetrics(spec, dir);
+        int raceCount = rows.Select(r => (r.Variant, r.Race)).Distinct().Count();
+        var findings = BatchFindings.Of(spec, rows, metrics, !cts.IsCancellationRequested, Peeking.Warning(looks, previousRaces, resumed, raceCount));
         AtomicFile.WriteAllText(Path.Combine(dir, "results.csv"), BatchRunner.ResultsCsv(rows));
         ParquetResults.Write(rows, Path.Combine(dir, "results.parquet"));
-        AtomicFile.WriteAllText(Path.Combine(dir, "summary.json"), Json.Serialize(new
-        {
-            experiment = spec.Name,
-            seed = spec.MasterSeed,
-            focus = spec.Focus,
-            races_per_variant = spec.Races,
-            complete = !cts.IsCancellationRequested,
-            variants = variants.Select(v => new { name = v.Name, races = v.Races, mean_elapsed_s = v.MeanElapsedS, win_share = v.WinShare.Estimate,
-                win_share_low = v.WinShare.Low, win_share_high = v.WinShare.High, mean_place = v.MeanPlace }),
-            pairs = pairs.Select(p => new { a = p.A, b = p.B, races = p.Pairs, mean_diff_s = p.MeanDiffT.Estimate, ci_low_s = p.MeanDiffT.Low, ci_high_s = p.MeanDiffT.High,
-                bootstrap_low_s = p.MeanDiffBootstrap.Low, bootstrap_high_s = p.MeanDiffBootstrap.High, p_a_beats_b = p.WinProbability.Estimate,
-                significant = p.Significant, races_needed = p.PairsNeeded,
-                mean_place_diff = p.PlaceDiffT?.Estimate, place_ci_low = p.PlaceDiffT?.Low, place_ci_high = p.PlaceDiffT?.High,
-                place_bootstrap_low = p.PlaceDiffBootstrap?.Low, place_bootstrap_high = p.PlaceDiffBootstrap?.High }),
-            caution = Caution.Text,
-        }) + "\n");
-        var metrics = BatchRunner.ReadMetrics(spec, dir);
-        var md = ExperimentReport.Markdown(spec, variants, pairs, rows, !cts.IsCancellationRequested, metrics);
+        AtomicFile.WriteAllText(Path.Combine(dir, "summary.json"), BatchSummary.Json(findings, path, sets, looks + 1) + "\n");
+        var md = ExperimentReport.Markdown(findings);
         AtomicFile.WriteAllText(Path.Combine(dir, "report.md"), md);
-        AtomicFile.WriteAllText(Path.Combine(dir, "report.html"), ExperimentReport.Html(spec, md, ExperimentReport.DurationChart(spec, rows),
-            ExperimentReport.IntervalChart(pairs), ExperimentReport.SideChart(spec, rows), ExperimentReport.CrossoverChart(spec, rows, metrics, pairs)));
+        AtomicFile.WriteAllText(Path.Combine(dir, "report.html"), ReportHtml.Of(spec.Name, md, BatchSummary.Charts(findings)));
+        BatchSummary.Print(findings, Terminal.For(stdout));
         var console = Terminal.For(stdout);
-        var t = new Table().Border(TableBorder.Simple).Title($"[bold]{Markup.Escape(spec.Name)}[/]: {spec.Races} races per variant, focus {Markup.Escape(spec.Focus)}");
-        t.AddColumn("variant"); t.AddColumn(new TableColumn("races").RightAligned()); t.AddColumn(new TableColumn("mean time").RightAligned());
-        t.AddColumn(new TableColumn("win share (95 %)").RightAligned()); t.AddColumn(new TableColumn("mean place").RightAligned());
-        foreach (var v in variants)
-            t.AddRow(Markup.Escape(v.Name), v.Races.ToString(CultureInfo.InvariantCulture), F(v.MeanElapsedS, "0.0") + " s",
-                $"{F(v.WinShare.Estimate * 100, "0")} % ({F(v.WinShare.Low * 100, "0")}-{F(v.WinShare.High * 100, "0")})", F(v.MeanPlace, "0.0"));
-        console.Write(t);
-        foreach (var p in pairs)
-            console.MarkupLine(Markup.Escape($"{p.A} - {p.B}: {F(p.MeanDiffT.Estimate, "0.0")} s (95 % {F(p.MeanDiffT.Low, "0.0")} to {F(p.MeanDiffT.High, "0.0")}; bootstrap " +
-                $"{F(p.MeanDiffBootstrap.Low, "0.0")} to {F(p.MeanDiffBootstrap.High, "0.0")}), {p.A} faster in {F(p.WinProbability.Estimate * 100, "0")} % of races: " +
-                (p.Significant ? "resolved" : $"not resolved (about {p.PairsNeeded} races would resolve a difference this size)")));
-        console.MarkupLine("[grey]" + Markup.Escape($"{rows.Select(r => (r.Variant, r.Race)).Distinct().Count()} races in {clock.Elapsed.TotalSeconds:0.0} s; wrote results.csv, results.parquet, summary.json, report.md, report.html and runs/ in {dir}") + "[/]");
+        console.MarkupLine("[grey]" + Markup.Escape($"{raceCount} races in {clock.Elapsed.TotalSeconds:0.0} s; wrote results.csv, results.parquet, summary.json, report.md, report.html and runs/ in {dir}") + "[/]");
         console.MarkupLine("[yellow]" + Markup.Escape(Caution.Text) + "[/]");
         return ExitCodes.Ok;
     }
 
-    static string F(double v, string fmt) => double.IsFinite(v) ? v.ToString(fmt, CultureInfo.InvariantCulture) : "-";
 }

@@ -26,16 +26,25 @@ public static class RaceCommand
         var port = new Option<int>("--port") { Description = "with --view: port to serve on (default: a free port)", DefaultValueFactory = _ => 0 };
         var host = new Option<string>("--host") { Description = "with --view: address to listen on (default 127.0.0.1)", DefaultValueFactory = _ => "127.0.0.1" };
         var pace = new Option<double>("--pace") { Description = "with --view: race seconds per real second (default 4; 0 = as fast as it runs)", DefaultValueFactory = _ => 4 };
-        var cmd = new Command("race", "Race a scenario's fleet round its course in its wind, step by step from the board physics.") { file, seed, set, outDir, format, view, port, host, pace };
-        cmd.SetAction(pr => pr.GetValue(view)
-            ? RunLive(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(host)!, pr.GetValue(port), pr.GetValue(pace), stdout, stderr)
-            : Run(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(format)!, stdout, stderr));
+        var fromBatch = new Option<string?>("--from-batch") { Description = "race again race --race of variant --variant of the batch in this folder, exactly (SCENARIO: the experiment or its scenario)" };
+        var raceNo = new Option<int?>("--race") { Description = "with --from-batch: the race number (0 for the first, as in runs/VARIANT/NNNNNN.csv)" };
+        var variant = new Option<string?>("--variant") { Description = "with --from-batch: the variant's name" };
+        var cmd = new Command("race", "Race a scenario's fleet round its course in its wind, step by step from the board physics.") { file, seed, set, outDir, format, view, port, host, pace, fromBatch, raceNo, variant };
+        cmd.SetAction(pr =>
+        {
+            var batch = pr.GetValue(fromBatch) is string dir
+                ? FromBatch.Load(pr.GetValue(file)!, dir, pr.GetValue(raceNo), pr.GetValue(variant), pr.GetValue(seed), pr.GetValue(set) ?? [])
+                : pr.GetValue(raceNo) is not null || pr.GetValue(variant) is not null ? throw new UsageException("--race and --variant go with --from-batch DIR") : null;
+            return pr.GetValue(view)
+                ? RunLive(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(host)!, pr.GetValue(port), pr.GetValue(pace), stdout, stderr, batch)
+                : Run(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(format)!, stdout, stderr, batch);
+        });
         return cmd;
     }
 
-    static int Run(string path, ulong? seed, string[] sets, string? outDir, string format, TextWriter stdout, TextWriter stderr)
+    static int Run(string path, ulong? seed, string[] sets, string? outDir, string format, TextWriter stdout, TextWriter stderr, FromBatch? batch = null)
     {
-        var setup = ScenarioFile.LoadRace(path, sets, seed);
+        var setup = batch?.Setup ?? ScenarioFile.LoadRace(path, sets, seed);
         var (name, dir) = NameAndFolder(setup, path, outDir);
         var clock = System.Diagnostics.Stopwatch.StartNew();
         var race = new Race(setup);
@@ -58,8 +67,15 @@ public static class RaceCommand
         console.MarkupLine(Markup.Escape($"{result.Boards.Count - unfinished} of {result.Boards.Count} finished; seed {race.Seed}; " +
             $"{race.StepIndex} steps of {1000 * race.Dt:0} ms; set-up {setupS:0.0} s, race {runS:0.0} s ({boardSteps / Math.Max(runS, 1e-9) / 1e6:0.00} M board-steps/s)"));
         console.MarkupLine("[grey]" + Markup.Escape($"Wrote {string.Join(", ", written)} in {dir}") + "[/]");
+        int code = ExitCodes.Ok;
+        if (batch is not null)
+        {
+            var (same, message) = batch.Check(race, result);
+            console.MarkupLine((same ? "[green]" : "[red]") + Markup.Escape(message) + "[/]");
+            if (!same) code = ExitCodes.Failure;
+        }
         console.MarkupLine("[yellow]" + Markup.Escape(Caution.Text) + "[/]");
-        return ExitCodes.Ok;
+        return code;
     }
 
     /// <summary>The race's display name (the scenario's, else the file's) and its output folder (default out/race-NAME).</summary>
@@ -70,10 +86,11 @@ public static class RaceCommand
     }
 
     /// <summary>The race, live in the viewer: paced to real time, streamed to the page, results written at the end.</summary>
-    static int RunLive(string path, ulong? seed, string[] sets, string? outDir, string host, int port, double pace, TextWriter stdout, TextWriter stderr)
+    static int RunLive(string path, ulong? seed, string[] sets, string? outDir, string host, int port, double pace, TextWriter stdout, TextWriter stderr,
+        FromBatch? batch = null)
     {
         if (pace < 0 || !double.IsFinite(pace)) throw new UsageException($"--pace {pace}: give race seconds per real second (0 or more)");
-        var setup = ScenarioFile.LoadRace(path, sets, seed);
+        var setup = batch?.Setup ?? ScenarioFile.LoadRace(path, sets, seed);
         var (_, dir) = NameAndFolder(setup, path, outDir);
         var race = new Race(setup);
         var feed = new Viewer.LiveFeed(race);

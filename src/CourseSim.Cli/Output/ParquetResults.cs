@@ -3,7 +3,10 @@ using Parquet.Serialization;
 
 namespace CourseSim.Cli.Output;
 
-/// <summary>results.parquet: the rows of results.csv as an Apache Parquet table (Parquet.Net), same columns and order.</summary>
+/// <summary>
+/// results.parquet: the rows of results.csv as an Apache Parquet table (Parquet.Net), same columns and order. The seed
+/// is an unsigned 64-bit integer (INT64 with the UINT_64 logical type), so readers give back the seed itself.
+/// </summary>
 public static class ParquetResults
 {
     /// <summary>One row; property names are the column names.</summary>
@@ -11,10 +14,11 @@ public static class ParquetResults
     {
         public string variant { get; set; } = "";
         public int race { get; set; }
-        public long seed { get; set; }
+        public ulong seed { get; set; }
         public string board { get; set; } = "";
         public string name { get; set; } = "";
         public int? place { get; set; }
+        public int place_scored { get; set; }
         public bool finished { get; set; }
         public double? elapsed_s { get; set; }
         public double distance_m { get; set; }
@@ -22,18 +26,24 @@ public static class ParquetResults
         public int gybes { get; set; }
         public int falls { get; set; }
         public bool ocs { get; set; }
-        public double race_duration_s { get; set; }
+        public double? first_finisher_s { get; set; }
+        public double? last_finisher_s { get; set; }
+        public double time_limit_s { get; set; }
+        public double wind_kn { get; set; }
         public string first_beat_side { get; set; } = "";
         public string splits_s { get; set; } = "";
     }
+
+    static double? N(double v) => double.IsFinite(v) ? Math.Round(v, 3) : null;
 
     public static void Write(IEnumerable<RaceRow> rows, string path)
     {
         var data = rows.Select(r => new Row
         {
-            variant = r.Variant, race = r.Race, seed = unchecked((long)r.Seed), board = r.BoardId, name = r.Name, place = r.Place, finished = r.Finished,
-            elapsed_s = r.ElapsedS, distance_m = r.DistanceM, tacks = r.Tacks, gybes = r.Gybes, falls = r.Falls, ocs = r.Ocs, race_duration_s = r.DurationS,
-            first_beat_side = r.FirstBeatSide, splits_s = r.SplitsS,
+            variant = r.Variant, race = r.Race, seed = r.Seed, board = r.BoardId, name = r.Name, place = r.Place, place_scored = r.PlaceScored,
+            finished = r.Finished, elapsed_s = r.ElapsedS is double e ? Math.Round(e, 3) : null, distance_m = Math.Round(r.DistanceM, 3), tacks = r.Tacks,
+            gybes = r.Gybes, falls = r.Falls, ocs = r.Ocs, first_finisher_s = N(r.FirstFinisherS), last_finisher_s = N(r.LastFinisherS),
+            time_limit_s = r.TimeLimitS, wind_kn = Math.Round(r.WindKn, 3), first_beat_side = r.FirstBeatSide, splits_s = r.SplitsS,
         }).ToList();
         string tmp = path + ".tmp";
         using (var fs = File.Create(tmp)) ParquetSerializer.SerializeAsync(data, fs).GetAwaiter().GetResult();

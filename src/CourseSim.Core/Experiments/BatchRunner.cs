@@ -6,61 +6,6 @@ using CourseSim.Storage;
 
 namespace CourseSim.Experiments;
 
-/// <summary>One board in one race of one variant: a row of results.csv.</summary>
-public sealed record RaceRow(string Variant, int Race, ulong Seed, string BoardId, string Name, int? Place, bool Finished, double? ElapsedS,
-    double DistanceM, int Tacks, int Gybes, int Falls, bool Ocs, double DurationS, string FirstBeatSide = "", string SplitsS = "")
-{
-    public const string Header = "variant,race,seed,board,name,place,finished,elapsed_s,distance_m,tacks,gybes,falls,ocs,race_duration_s,first_beat_side,splits_s";
-
-    /// <summary>Time that counts for this board: its elapsed time if it finished, else the race's whole duration
-    /// (a DNF is scored as having sailed until the time limit).</summary>
-    public double TimeOrLimitS => Finished && ElapsedS is double e ? e : DurationS;
-
-    /// <summary>Split times (s from the signal) at each course step passed.</summary>
-    public double[] Splits => SplitsS.Length == 0 ? [] : SplitsS.Split(';').Select(x => double.Parse(x, CultureInfo.InvariantCulture)).ToArray();
-
-    public string ToCsv() => string.Join(',', Csv(Variant), Race.ToString(CultureInfo.InvariantCulture), Seed.ToString(CultureInfo.InvariantCulture),
-        Csv(BoardId), Csv(Name), Place?.ToString(CultureInfo.InvariantCulture) ?? "", Finished ? "true" : "false", N(ElapsedS), N(DistanceM),
-        Tacks.ToString(CultureInfo.InvariantCulture), Gybes.ToString(CultureInfo.InvariantCulture), Falls.ToString(CultureInfo.InvariantCulture),
-        Ocs ? "true" : "false", N(DurationS), FirstBeatSide, SplitsS);
-
-    public static RaceRow Parse(string line, string source, int lineNo)
-    {
-        var p = SplitCsv(line);
-        if (p.Count != 16) throw new InvalidDataException($"{source}:{lineNo}: expected 16 fields, found {p.Count}");
-        static double? D(string s) => s.Length == 0 ? null : double.Parse(s, CultureInfo.InvariantCulture);
-        return new RaceRow(p[0], int.Parse(p[1], CultureInfo.InvariantCulture), ulong.Parse(p[2], CultureInfo.InvariantCulture), p[3], p[4],
-            p[5].Length == 0 ? null : int.Parse(p[5], CultureInfo.InvariantCulture), p[6] == "true", D(p[7]), D(p[8]) ?? 0,
-            int.Parse(p[9], CultureInfo.InvariantCulture), int.Parse(p[10], CultureInfo.InvariantCulture), int.Parse(p[11], CultureInfo.InvariantCulture),
-            p[12] == "true", D(p[13]) ?? 0, p[14], p[15]);
-    }
-
-    static string N(double? v) => v is double d ? Math.Round(d, 3).ToString("0.###", CultureInfo.InvariantCulture) : "";
-    static string Csv(string s) => s.IndexOfAny([',', '"', '\n', '\r']) >= 0 ? "\"" + s.Replace("\"", "\"\"") + "\"" : s;
-
-    static List<string> SplitCsv(string line)
-    {
-        var parts = new List<string>();
-        var sb = new StringBuilder();
-        bool quoted = false;
-        for (int i = 0; i < line.Length; i++)
-        {
-            char c = line[i];
-            if (quoted)
-            {
-                if (c == '"' && i + 1 < line.Length && line[i + 1] == '"') { sb.Append('"'); i++; }
-                else if (c == '"') quoted = false;
-                else sb.Append(c);
-            }
-            else if (c == '"') quoted = true;
-            else if (c == ',') { parts.Add(sb.ToString()); sb.Clear(); }
-            else sb.Append(c);
-        }
-        parts.Add(sb.ToString());
-        return parts;
-    }
-}
-
 /// <summary>Progress of a batch: races done of the total, and how many were already on disk when it started.</summary>
 public readonly record struct BatchProgress(int Done, int Total, int Resumed);
 
@@ -76,16 +21,31 @@ public static class BatchRunner
     public static string MetricsFile(string outDir, string variant, int race) => Path.Combine(outDir, "runs", variant, $"{race:D6}.race.csv");
 
     /// <summary>The race figures of every finished race, in (variant, race) order.</summary>
-    public static IReadOnlyList<(string Variant, int Race, string Line)> ReadMetrics(ExperimentSpec spec, string outDir)
+    public static IReadOnlyList<(string Variant, int Race, RaceMetrics Metrics)> ReadMetrics(ExperimentSpec spec, string outDir)
     {
-        var list = new List<(string, int, string)>();
+        var list = new List<(string, int, RaceMetrics)>();
         foreach (var v in spec.Variants)
             for (int i = 0; i < spec.Races; i++)
             {
-                if (DurableFile.TryReadSealed(MetricsFile(outDir, v.Name, i), out var m, out _) && DurableFile.TryReadSealed(RunFile(outDir, v.Name, i), out _, out _))
-                    list.Add((v.Name, i, m.Trim()));
+                var f = MetricsFile(outDir, v.Name, i);
+                if (DurableFile.TryReadSealed(f, out var m, out _) && DurableFile.TryReadSealed(RunFile(outDir, v.Name, i), out _, out _))
+                    list.Add((v.Name, i, RaceMetrics.ParseFile(m.Split('\n', StringSplitOptions.RemoveEmptyEntries), f).Metrics));
             }
         return list;
+    }
+
+    /// <summary>The rows of one finished race: a row per board, the place that counts for a board that did not finish
+    /// being the one after the last finisher.</summary>
+    public static IEnumerable<RaceRow> RowsOf(string variant, int raceIndex, RaceSetup setup, RaceResult result, RaceMetrics metrics)
+    {
+        int finishers = result.Boards.Count(b => b.Finished);
+        foreach (var b in result.Boards)
+        {
+            string splits = string.Join(';', b.SplitsS.Select(x => Math.Round(x, 2).ToString("0.##", CultureInfo.InvariantCulture)));
+            yield return new RaceRow(variant, raceIndex, setup.Race.Seed, setup.Boards[b.Board].Id, b.Name, b.Place, b.Place ?? finishers + 1, b.Finished,
+                b.ElapsedS, b.DistanceM, b.Tacks, b.Gybes, b.Falls, b.Ocs, metrics.FirstFinisherS, metrics.LastFinisherS, setup.Race.TimeLimitS,
+                setup.Wind.SpeedKn, metrics.FirstBeatSide.TryGetValue(b.Board, out var side) ? side : "", splits);
+        }
     }
 
     /// <summary>Runs what is missing; returns the rows of every finished race, in order. Cancelling stops after the races under way.</summary>
@@ -133,24 +93,15 @@ public static class BatchRunner
         {
             Parallel.ForEach(todo, options, job =>
             {
-                ulong seed = spec.SeedFor(job.Index, job.Race);
-                var setup = job.V.Setup with { Race = job.V.Setup.Race with { Seed = seed } };
-                double wind = spec.WindFor(job.Race);
-                if (!double.IsNaN(wind)) setup = setup with { Wind = setup.Wind with { SpeedKn = wind } };
+                var setup = spec.SetupFor(job.Index, job.Race);
                 var race = new Race(setup, rigs.For);
                 var result = race.Run();
                 var metrics = RaceMetrics.Of(race, result);
-                var sb = new StringBuilder();
-                foreach (var b in result.Boards)
-                {
-                    string splits = string.Join(';', b.SplitsS.Select(x => Math.Round(x, 2).ToString("0.##", CultureInfo.InvariantCulture)));
-                    var row = new RaceRow(job.V.Name, job.Race, seed, setup.Boards[b.Board].Id, b.Name, b.Place, b.Finished, b.ElapsedS, b.DistanceM,
-                        b.Tacks, b.Gybes, b.Falls, b.Ocs, result.DurationS, metrics.FirstBeatSide.TryGetValue(b.Board, out var side) ? side : "", splits);
-                    sb.Append(row.ToCsv()).Append('\n');
-                }
+                var sb = new StringBuilder(RaceRow.Header).Append('\n');
+                foreach (var row in RowsOf(job.V.Name, job.Race, setup, result, metrics)) sb.Append(row.ToCsv()).Append('\n');
                 var file = RunFile(outDir, job.V.Name, job.Race);
                 // The race's own figures first; the board rows last, as the mark that the race is complete.
-                DurableFile.WriteText(MetricsFile(outDir, job.V.Name, job.Race), DurableFile.Seal(metrics.ToCsv(job.V.Name, job.Race) + "\n"), open);
+                DurableFile.WriteText(MetricsFile(outDir, job.V.Name, job.Race), DurableFile.Seal(RaceMetrics.Header + "\n" + metrics.ToCsv(job.V.Name, job.Race) + "\n"), open);
                 DurableFile.WriteText(file, DurableFile.Seal(sb.ToString()), open);
                 int d = Interlocked.Increment(ref done);
                 progress?.Invoke(new BatchProgress(d, jobs.Count, resumed));
@@ -169,8 +120,7 @@ public static class BatchRunner
         {
             var file = RunFile(outDir, j.V.Name, j.Race);
             if (!DurableFile.TryReadSealed(file, out var text, out _)) continue;
-            int n = 0;
-            foreach (var line in text.Split('\n', StringSplitOptions.RemoveEmptyEntries)) rows.Add(RaceRow.Parse(line, file, ++n));
+            rows.AddRange(RaceRow.ParseFile(text.Split('\n', StringSplitOptions.RemoveEmptyEntries), file));
         }
         return rows;
     }

@@ -12,7 +12,7 @@ public readonly record struct Interval(double Estimate, double Low, double High)
 
 /// <summary>
 /// The statistics experiments report: Wilson score intervals for shares,
-/// paired t intervals and percentile bootstrap intervals for paired differences, the chance one variant beats the
+/// paired t intervals and studentised bootstrap intervals for paired differences, Holm's adjustment, the chance one variant beats the
 /// other, and the number of races a difference of a given size needs. Quantiles from MathNet.Numerics.
 /// </summary>
 public static class Statistics
@@ -54,26 +54,70 @@ public static class Statistics
     }
 
     /// <summary>
-    /// Percentile bootstrap interval for the mean of d (Efron and Tibshirani 1993, An Introduction to the Bootstrap,
-    /// ch. 13): <paramref name="resamples"/> resamples drawn with our counter-based generator, so the interval is the
-    /// same on every machine for a given seed.
+    /// Symmetric studentised (bootstrap-t) interval for the mean of d (Efron and Tibshirani 1993, An Introduction to the
+    /// Bootstrap, ch. 12.5; the symmetric form: Hall 1988, J R Stat Soc B 50:35-45): each resample's
+    /// t = (mean* - mean) / se*, and the interval mean +- q se with q the (1 - a) quantile of |t*|. Unlike the percentile
+    /// bootstrap it holds its level at small n (the percentile interval is too narrow by about the factor t/z there);
+    /// the symmetric form's coverage error is of smaller order than the equal-tailed one's (Hall 1988).
+    /// A resample with no spread counts as an infinite t (or zero when its mean equals the mean): conservative.
+    /// Resamples are drawn with our counter-based generator, so the interval is the same on every machine for a seed.
     /// </summary>
-    public static Interval BootstrapMean(ReadOnlySpan<double> d, ulong seed, int resamples = 4000, double confidence = 0.95)
+    public static Interval BootstrapT(ReadOnlySpan<double> d, ulong seed, int resamples = 4000, double confidence = 0.95)
     {
         if (d.Length < 2) throw new ArgumentException("a bootstrap needs at least two values");
+        var (mean, sd) = MeanSd(d);
+        double se = sd / Math.Sqrt(d.Length);
+        if (se == 0) return new Interval(mean, mean, mean);
         var rng = new CounterRng(seed, 0xB007);
-        var means = new double[resamples];
+        var ts = new double[resamples];
         ulong c = 0;
+        int n = d.Length;
         for (int r = 0; r < resamples; r++)
         {
-            double s = 0;
-            for (int i = 0; i < d.Length; i++) s += d[(int)(rng.Uniform(c++) * d.Length)];
-            means[r] = s / d.Length;
+            double s = 0, ss = 0;
+            for (int i = 0; i < n; i++)
+            {
+                double v = d[(int)(rng.Uniform(c++) * n)];
+                s += v; ss += v * v;
+            }
+            double m = s / n, var = Math.Max(0, (ss - n * m * m) / (n - 1));
+            double seStar = Math.Sqrt(var / n);
+            double diff = m - mean;
+            ts[r] = seStar > 1e-12 * (Math.Abs(mean) + se) ? Math.Abs(diff) / seStar : Math.Abs(diff) <= 1e-12 * (Math.Abs(mean) + se) ? 0 : double.PositiveInfinity;
         }
-        Array.Sort(means);
-        double a = (1 - confidence) / 2;
-        var (mean, _) = MeanSd(d);
-        return new Interval(mean, Quantile(means, a), Quantile(means, 1 - a));
+        Array.Sort(ts);
+        double q = Quantile(ts, confidence);
+        return new Interval(mean, mean - q * se, mean + q * se);
+    }
+
+    /// <summary>Two-sided p-value of the paired t test that the mean of d is zero (Student 1908); 1 when there is no
+    /// spread and the mean is zero, 0 when there is no spread and the mean is not.</summary>
+    public static double PairedTP(ReadOnlySpan<double> d)
+    {
+        if (d.Length < 2) throw new ArgumentException("a paired t test needs at least two pairs");
+        var (mean, sd) = MeanSd(d);
+        if (sd == 0) return mean == 0 ? 1 : 0;
+        double t = mean / (sd / Math.Sqrt(d.Length));
+        return 2 * (1 - StudentT.CDF(0, 1, d.Length - 1, Math.Abs(t)));
+    }
+
+    /// <summary>
+    /// Holm's step-down adjustment of p-values for m comparisons (Holm 1979, Scand J Statist 6:65-70): sorted
+    /// ascending, p(i) becomes max over j &lt;= i of min(1, (m - j + 1) p(j)); a comparison is significant at level alpha
+    /// when its adjusted p is at most alpha. Controls the family-wise error rate. Returned in the input order.
+    /// </summary>
+    public static double[] Holm(IReadOnlyList<double> p)
+    {
+        int m = p.Count;
+        var order = Enumerable.Range(0, m).OrderBy(i => p[i]).ThenBy(i => i).ToArray();
+        var adj = new double[m];
+        double run = 0;
+        for (int k = 0; k < m; k++)
+        {
+            run = Math.Max(run, Math.Min(1, (m - k) * p[order[k]]));
+            adj[order[k]] = run;
+        }
+        return adj;
     }
 
     /// <summary>Linear-interpolation quantile of sorted values (Hyndman and Fan 1996, definition 7).</summary>
@@ -94,18 +138,5 @@ public static class Statistics
         for (int i = 0; i < a.Length; i++) wins += a[i] < b[i] ? 1 : a[i] == b[i] ? 0.5 : 0;
         var w = Wilson((int)Math.Round(wins), a.Length, confidence);
         return w with { Estimate = wins / a.Length };
-    }
-
-    /// <summary>
-    /// Pairs needed for a two-sided test at level alpha to detect a mean difference <paramref name="difference"/> with
-    /// the given power, for paired differences of standard deviation <paramref name="sd"/>: the normal approximation
-    /// n = ((z_(1-alpha/2) + z_power) sd / difference)^2, rounded up.
-    /// </summary>
-    public static int PairsNeeded(double difference, double sd, double alpha = 0.05, double power = 0.8)
-    {
-        if (difference == 0) return int.MaxValue;
-        double z = Normal.InvCDF(0, 1, 1 - alpha / 2) + Normal.InvCDF(0, 1, power);
-        double n = Math.Pow(z * sd / difference, 2);
-        return n > int.MaxValue ? int.MaxValue : Math.Max(2, (int)Math.Ceiling(n));
     }
 }

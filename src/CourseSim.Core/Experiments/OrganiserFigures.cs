@@ -1,0 +1,83 @@
+namespace CourseSim.Experiments;
+
+/// <summary>A spread of values: median and the 10th and 90th percentiles (Hyndman and Fan definition 7), and how many.</summary>
+public readonly record struct Spread(double Median, double P10, double P90, int Count)
+{
+    public static Spread Of(IEnumerable<double> values)
+    {
+        var v = values.Where(double.IsFinite).Order().ToArray();
+        return v.Length == 0 ? new Spread(double.NaN, double.NaN, double.NaN, 0)
+            : new Spread(Statistics.Quantile(v, 0.5), Statistics.Quantile(v, 0.1), Statistics.Quantile(v, 0.9), v.Length);
+    }
+}
+
+/// <summary>A leg of the course, its mean time over the races (each race's mean over its finishers) with its t interval.</summary>
+public sealed record LegTime(string Label, Interval MinutesT);
+
+/// <summary>
+/// What a race organiser asks of one variant, every figure with its interval, races being the independent units:
+/// race duration (first and last finisher), the share of races with no finisher within the time limit and with a board
+/// not finishing by it, the share within 10 % of a target duration, the signed line bias over the start sequence and the
+/// share of races each end was favoured, side fairness on the first beat, leg times by leg, contacts and bunching.
+/// Means over races take Student's t interval; shares of races the Wilson interval (Statistics).
+/// </summary>
+public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFinisherS, Spread LastFinisherS, Interval NoFinisher, Interval SomeNotFinished,
+    Interval? WithinTarget, Interval LineBiasDeg, Interval LineBiasM, Interval RightEndFavoured, Interval ShareLeft, Interval SidePlaceDiff,
+    int SideRaces, IReadOnlyList<LegTime> Legs, Interval ContactsPerRace, Interval AvoidablePerRace, double PeakAtMark, double CloseArrivals)
+{
+    /// <summary>Share of the target duration within which a race counts as on target.</summary>
+    public const double TargetTolerance = 0.1;
+
+    static readonly Interval None = new(double.NaN, double.NaN, double.NaN);
+
+    /// <summary>Mean with its t interval; a single value gives no interval; none gives NaN.</summary>
+    public static Interval MeanT(IReadOnlyList<double> x)
+    {
+        var v = x.Where(double.IsFinite).ToArray();
+        if (v.Length == 0) return None;
+        if (v.Length == 1) return new Interval(v[0], double.NaN, double.NaN);
+        return Statistics.PairedT(v);
+    }
+
+    static Interval Share(int k, int n) => n == 0 ? None : Statistics.Wilson(k, n);
+
+    public static OrganiserFigures Of(string variant, IReadOnlyList<RaceMetrics> races, IReadOnlyList<RaceRow> rows, double targetS)
+    {
+        int n = races.Count;
+        var first = races.Select(m => m.FirstFinisherS).ToList();
+        Interval? target = double.IsNaN(targetS) ? null
+            : Share(first.Count(x => double.IsFinite(x) && Math.Abs(x - targetS) <= TargetTolerance * targetS), n);
+        var bias = races.Select(m => m.LineBiasDeg).ToList();
+        // Side fairness, per race: the mean place (scored) of the boards that went right minus of those that went left
+        // (positive: the left paid); races where both sides were sailed.
+        var byRace = rows.GroupBy(r => r.Race).ToList();
+        var sideDiff = new List<double>();
+        var shareLeft = new List<double>();
+        foreach (var g in byRace)
+        {
+            var l = g.Where(r => r.FirstBeatSide == "left").ToList();
+            var r = g.Where(r => r.FirstBeatSide == "right").ToList();
+            if (l.Count + r.Count > 0) shareLeft.Add((double)l.Count / (l.Count + r.Count));
+            if (l.Count > 0 && r.Count > 0) sideDiff.Add(r.Average(x => (double)x.PlaceScored) - l.Average(x => (double)x.PlaceScored));
+        }
+        // Leg times: each race's mean over its finishers, then the mean over races.
+        var labels = races.Select(m => m.LegLabels).FirstOrDefault(x => x.Length > 0) ?? [];
+        var legs = new List<LegTime>();
+        for (int k = 0; k < labels.Length; k++)
+        {
+            var perRace = new List<double>();
+            foreach (var g in byRace)
+            {
+                var s = g.Where(r => r.Finished).Select(r => r.Splits).Where(x => x.Length > k).Select(x => (x[k] - (k == 0 ? 0 : x[k - 1])) / 60).ToList();
+                if (s.Count > 0) perRace.Add(s.Average());
+            }
+            legs.Add(new LegTime(labels[k], MeanT(perRace)));
+        }
+        return new OrganiserFigures(variant, n, Spread.Of(first), Spread.Of(races.Select(m => m.LastFinisherS)),
+            Share(races.Count(m => m.Finishers == 0), n), Share(races.Count(m => m.Finishers < m.Boards), n), target,
+            MeanT(bias), MeanT(races.Select(m => m.LineBiasM).ToList()), Share(bias.Count(b => b > 0), n),
+            MeanT(shareLeft), MeanT(sideDiff), sideDiff.Count, legs,
+            MeanT(races.Select(m => (double)m.Contacts).ToList()), MeanT(races.Select(m => (double)m.AvoidableContacts).ToList()),
+            n == 0 ? double.NaN : races.Average(m => m.PeakAtMark), n == 0 ? double.NaN : races.Average(m => (double)m.CloseArrivals));
+    }
+}
