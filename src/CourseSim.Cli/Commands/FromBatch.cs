@@ -52,7 +52,10 @@ public sealed class FromBatch
     {
         if (!File.Exists(RunFile)) return (true, $"Race {Race} of {Variant} (seed {Setup.Race.Seed}): the batch has no file of it yet ({RunFile}) to check against.");
         var rows = BatchRunner.RowsOf(Variant, Race, Setup, result, RaceMetrics.Of(race, result)).Select(r => r.ToCsv()).ToList();
-        var batch = RaceRow.ParseFile(File.ReadAllLines(RunFile), RunFile).Select(r => r.ToCsv()).ToList();
+        // Run files are sealed (their SHA-256 on a last line): a damaged one cannot be checked against.
+        if (!CourseSim.Storage.DurableFile.TryReadSealed(RunFile, out var text, out var problem))
+            return (false, $"Race {Race} of {Variant} (seed {Setup.Race.Seed}): the batch's {RunFile} cannot be checked against: {problem}.");
+        var batch = RaceRow.ParseFile(text.Split('\n', StringSplitOptions.RemoveEmptyEntries), RunFile).Select(r => r.ToCsv()).ToList();
         return rows.SequenceEqual(batch)
             ? (true, $"Race {Race} of {Variant} (seed {Setup.Race.Seed}): every board's result matches the batch's {RunFile} exactly.")
             : (false, $"Race {Race} of {Variant} (seed {Setup.Race.Seed}) differs from the batch's {RunFile}: the engine or the files changed since the batch ran.");
