@@ -40,7 +40,8 @@ public class DeterminismTests
         return (race.Run(), race);
     }
 
-    [Fact]
+    // About a minute each: in the slow category that .ci/run runs (COURSESIM_SLOW=1), so dotnet test stays quick.
+    [Fact, Trait("Category", Slow.Category)]
     public void PermutingTheBoardsOfTheFortyBoardDemoChangesNoBoardsResultOrTrack()
     {
         string text = File.ReadAllText(Fleet40);
@@ -80,7 +81,7 @@ public class DeterminismTests
         }
     }
 
-    [Fact]
+    [Fact, Trait("Category", Slow.Category)]
     public void BlockSizeAndTimingsChangeNothing()
     {
         // Own-board systems run fused in blocks: a block of one board, of seven, or the whole fleet at once (each
