@@ -1,4 +1,5 @@
 using CourseSim.Courses;
+using CourseSim.Engine;
 using CourseSim.Equilibrium;
 using CourseSim.Units;
 
@@ -23,8 +24,6 @@ public static class Navigation
     public const double MarkSideLookM = 60;
     /// <summary>Share of a finish line's length, at each end, a rider keeps off when choosing where to cross it (model value).</summary>
     public const double FinishEndInset = 0.15;
-
-    static double SignedAngle(double fromDeg, double headingRad) => Unit.WrapRadPi(Unit.DegToRad(fromDeg) - headingRad);
 
     /// <summary>
     /// The heading (rad) to make good towards <paramref name="target"/>: straight at it when it lies between the best
@@ -67,7 +66,7 @@ public static class Navigation
     {
         var s = course.Steps[step];
         if (s.Kind == StepKind.Finish && s.Line is { } finish && !double.IsNaN(headingRad)
-            && Math.Abs(SignedAngle(fromDeg, Unit.DegToRad((finish.Mid - p).Bearing))) > Math.PI / 2)
+            && Math.Abs(Sailing.SignedAngle(fromDeg, Unit.DegToRad((finish.Mid - p).Bearing))) > Math.PI / 2)
             return FinishAim(finish, p, headingRad);
         if (s.Kind != StepKind.Mark) return s.Target;
         var mark = s.Target;
@@ -120,10 +119,10 @@ public static class Navigation
         double cross = Vec2.Cross(dir, rel); // positive: the mark lies to port of the course
         bool correct = (cross > 0) == (s.Side == Rounding.Port) && Math.Abs(cross) >= 3;
         if (correct) return heading;
-        double twa = Math.Abs(SignedAngle(fromDeg, heading));
-        int side = Math.Sign(SignedAngle(fromDeg, heading)); if (side == 0) side = tack;
+        double twa = Math.Abs(Sailing.SignedAngle(fromDeg, heading));
+        int side = Math.Sign(Sailing.SignedAngle(fromDeg, heading)); if (side == 0) side = tack;
         // Beating only: running, the rider already steers straight at the aim point within CloseRunM of it.
-        return twa < Unit.DegToRad(75) ? Unit.WrapRadPi(Unit.DegToRad(fromDeg) + side * rig.BestTwa(tws, true)) : heading;
+        return twa < Unit.DegToRad(75) ? Sailing.CloseHauledOtherTack(rig, fromDeg, side, tws) : heading;
     }
 }
 

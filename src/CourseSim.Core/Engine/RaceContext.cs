@@ -81,7 +81,8 @@ public sealed class RaceContext
     /// <summary>How far the rules' lookout scans for other boards, m (model value: 6 s at the closing speed of two planing boards).</summary>
     public const double RulesRangeM = 100;
 
-    static int EveryOf(double stepHz, double hz) => Math.Max(1, (int)Math.Round(stepHz / Math.Min(hz, stepHz)));
+    /// <summary>Steps per occurrence of something done at <paramref name="hz"/> (at least 1).</summary>
+    public static int EveryOf(double stepHz, double hz) => Math.Max(1, (int)Math.Round(stepHz / Math.Min(hz, stepHz)));
 
     /// <summary>Whether this step is a lookout step (the rules' neighbour pairs are rebuilt and riders look out).</summary>
     public bool IsLookoutStep => StepIndex % LookoutEvery == 0;

@@ -26,7 +26,7 @@ public sealed class ContactSystem : RaceSystem
             if (!s.Live[a] || !s.Live[b]) continue;
             double cd = Math.Sqrt((s.X[a] - s.X[b]) * (s.X[a] - s.X[b]) + (s.Y[a] - s.Y[b]) * (s.Y[a] - s.Y[b]));
             long key = RaceContext.UnorderedKey(a, b);
-            if (cd > SnapshotSystemContactCheckM) { c.Touching.Remove(key); continue; }
+            if (cd > Engine.Systems.SnapshotSystem.ContactCheckM) { c.Touching.Remove(key); continue; }
             var ra = new RuleBoard(s.X[a], s.Y[a], Unit.RadToDeg(s.Heading[a]), c.Fleet.LengthM[a]);
             var rb = new RuleBoard(s.X[b], s.Y[b], Unit.RadToDeg(s.Heading[b]), c.Fleet.LengthM[b]);
             double hd = RightOfWay.HullDistance(ra, rb);
@@ -35,8 +35,6 @@ public sealed class ContactSystem : RaceSystem
             Judged(c, a, b, 0.5 * (s.X[a] + s.X[b]), 0.5 * (s.Y[a] + s.Y[b]));
         }
     }
-
-    const double SnapshotSystemContactCheckM = Engine.Systems.SnapshotSystem.ContactCheckM;
 
     static void Judged(RaceContext c, int a, int b, double x, double y)
     {

@@ -62,12 +62,9 @@ public static class Judge
     }
 
     /// <summary>
-    /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track ha
-    /// (rad) at va (m/s), b holding its present track and speed (tracks, not headings: leeway is large at low speed).
+    /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track whose
+    /// sine and cosine are given, at va (m/s), b holding its present track and speed (tracks, not headings: leeway is large at low speed).
     /// </summary>
-    public static (double T, double D) Cpa(StepSnapshot s, int a, double ha, double va, int b) => Cpa(s, a, Math.Sin(ha), Math.Cos(ha), va, b);
-
-    /// <summary><see cref="Cpa(StepSnapshot, int, double, double, int)"/> with the track's sine and cosine given.</summary>
     public static (double T, double D) Cpa(StepSnapshot s, int a, double sinHa, double cosHa, double va, int b)
     {
         double rx = s.X[b] - s.X[a], ry = s.Y[b] - s.Y[a];
@@ -78,9 +75,7 @@ public static class Judge
         return (t, Math.Sqrt(dx * dx + dy * dy));
     }
 
-    /// <summary>Relative speed of b seen from a (a making good track h at v), m/s.</summary>
-    public static double ClosingSpeed(StepSnapshot s, int a, double h, double v, int b) => ClosingSpeed(s, Math.Sin(h), Math.Cos(h), v, b);
-
+    /// <summary>Relative speed of b seen from a board making good the track whose sine and cosine are given, at v, m/s.</summary>
     public static double ClosingSpeed(StepSnapshot s, double sinH, double cosH, double v, int b)
     {
         double vx = s.Speed[b] * s.TrackSin[b] - v * sinH, vy = s.Speed[b] * s.TrackCos[b] - v * cosH;

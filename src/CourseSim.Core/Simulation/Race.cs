@@ -53,8 +53,7 @@ public sealed class Race
     {
         Setup = setup;
         rigFor ??= new RigCache().For;
-        int senseEvery = Math.Max(1, (int)Math.Round(setup.Race.StepHz / Math.Min(setup.Race.WindHz, setup.Race.StepHz)));
-        var fleet = new Fleet(setup.Boards, rigFor, 1.0 / setup.Race.StepHz, senseEvery);
+        var fleet = new Fleet(setup.Boards, rigFor, 1.0 / setup.Race.StepHz, RaceContext.EveryOf(setup.Race.StepHz, setup.Race.WindHz));
         _c = new RaceContext(setup, fleet, World);
         for (int b = 0; b < fleet.Count; b++)
         {
