@@ -1,0 +1,139 @@
+namespace CourseSim.Equilibrium;
+
+/// <summary>The speeds one true wind angle offers at one true wind speed (m/s), and how a rider gets and keeps them.</summary>
+/// <param name="Displacement">the lowest stable speed below the planing branch, if any</param>
+/// <param name="Planing">the fastest stable speed on the planing branch (volume Froude number at least the drop-off), if any</param>
+/// <param name="GetPlaning">the speed a rider starting off the plane at this angle ends at: the planing one where pumping
+/// (or the wind alone) carries the board over the hump, else the displacement one</param>
+/// <param name="Sustained">the speed the rider holds on average in a gusty wind: planing speed weighted by the share of
+/// time the wind stays above this angle's drop-off wind, displacement speed for the rest</param>
+/// <param name="DropOffWindMs">the least true wind (m/s) in which the planing branch exists at this angle</param>
+/// <param name="PlaningShare">share of time on the plane used for <paramref name="Sustained"/></param>
+/// <param name="PlanesWithoutPumping">the board accelerates from rest onto the plane at this angle</param>
+/// <param name="PlanesWithPumping">pumping carries it over the hump at this angle</param>
+public readonly record struct Branches(double? Displacement, double? Planing, double GetPlaning, double Sustained,
+    double DropOffWindMs, double PlaningShare, bool PlanesWithoutPumping, bool PlanesWithPumping);
+
+/// <summary>
+/// Planing with hysteresis (docs/physics.md, "Planing with hysteresis"): what it takes to get onto the plane differs from
+/// what keeps the board there. Given the net surge force F(TWS, TWA, V) of a board model, this finds the stable speeds
+/// (F crossing from + to -), the get-planing speed (from rest, pumping over the hump) and the sustained speed a rider
+/// holds in a gusty wind. The velocity prediction (polars) and the race's rig polar both use it, each with its own
+/// evaluation of the same board model's forces.
+/// </summary>
+public sealed class PlaningBranches
+{
+    /// <summary>Standard deviation of the wind a rider meets on a leg as a share of the mean (model value: about the
+    /// sampled turbulence intensity of the engine's wind field, docs/wind.md; offshore turbulence intensity is 0.06-0.12
+    /// by IEC 61400-3, from memory).</summary>
+    public const double GustShare = 0.10;
+    const double SpeedStep = 0.5;
+    /// <summary>How many standard deviations of the wind either side of the mean the drop-off search looks (beyond them the
+    /// share of time planing is 0 or 1 to within 3e-5).</summary>
+    const double SearchSigmas = 4;
+
+    readonly Func<double, double, double, double> _net;
+    readonly Func<double, double> _pump;
+    readonly double _dropOffSpeed, _maxSpeed;
+
+    /// <param name="net">net surge force (N) at true wind speed (m/s, 10 m), true wind angle (rad, 0..pi) and board speed (m/s)</param>
+    /// <param name="pumpThrust">pumping thrust (N) at board speed during a burst</param>
+    /// <param name="dropOffSpeed">speed (m/s) below which a planing board drops off the plane</param>
+    /// <param name="maxSpeed">highest speed searched, m/s</param>
+    public PlaningBranches(Func<double, double, double, double> net, Func<double, double> pumpThrust, double dropOffSpeed, double maxSpeed = 30)
+    {
+        _net = net; _pump = pumpThrust; _dropOffSpeed = dropOffSpeed; _maxSpeed = maxSpeed;
+    }
+
+    /// <summary>Stable roots of F at one wind speed and angle: the lowest below the drop-off speed and the fastest above it.</summary>
+    public (double? Disp, double? Plan) Roots(double tws, double twa)
+    {
+        int n = (int)(Math.Min(_maxSpeed, 2.2 * tws + 5.0) / SpeedStep);
+        double? disp = null, plan = null;
+        double vPrev = 0.05, fPrev = _net(tws, twa, vPrev);
+        for (int i = 1; i <= n; i++)
+        {
+            double v = i * SpeedStep, f = _net(tws, twa, v);
+            if (fPrev > 0 && f <= 0)
+            {
+                double root = Refine(tws, twa, vPrev, v, fPrev, f);
+                if (root >= _dropOffSpeed) plan = root;
+                else disp ??= root;
+            }
+            vPrev = v; fPrev = f;
+        }
+        return (disp, plan);
+    }
+
+    double Refine(double tws, double twa, double a, double b, double fa, double fb)
+    {
+        for (int i = 0; i < 30 && b - a > 1e-4; i++)
+        {
+            double m = 0.5 * (a + b), fm = _net(tws, twa, m);
+            if (fm > 0) { a = m; fa = fm; } else { b = m; fb = fm; }
+        }
+        return fa == fb ? a : a + (b - a) * fa / (fa - fb);
+    }
+
+    /// <summary>Whether pumping carries the board from its displacement speed over the hump to the planing speed.</summary>
+    public bool PumpsOver(double tws, double twa, double disp, double plan)
+    {
+        for (double v = disp; v < plan; v += SpeedStep)
+            if (_net(tws, twa, v) + _pump(v) <= 0) return false;
+        return true;
+    }
+
+    /// <summary>Least true wind (m/s) in which the planing branch exists at this angle (bisection to 0.02 m/s); infinity if none below <paramref name="maxTws"/>.</summary>
+    public double DropOffWind(double twa, double maxTws) => DropOffWind(twa, 0.5, maxTws);
+
+    /// <summary>The drop-off wind searched between <paramref name="lo"/> and <paramref name="hi"/> (m/s): lo if the branch
+    /// exists there already, infinity if not even at hi.</summary>
+    public double DropOffWind(double twa, double lo, double hi)
+    {
+        if (Roots(hi, twa).Plan is null) return double.PositiveInfinity;
+        if (Roots(lo, twa).Plan is not null) return lo;
+        while (hi - lo > 0.02)
+        {
+            double mid = 0.5 * (lo + hi);
+            if (Roots(mid, twa).Plan is not null) hi = mid; else lo = mid;
+        }
+        return hi;
+    }
+
+    /// <summary>
+    /// Both branches at one wind speed and angle. <paramref name="canGetPlaning"/>: the rider can get planing somewhere
+    /// in this wind (heading up to a reach if need be), so the planing branch is open to them on every angle where it exists.
+    /// </summary>
+    public Branches At(double tws, double twa, bool canGetPlaning, double dropOffWind = double.NaN)
+    {
+        var (disp, plan) = Roots(tws, twa);
+        double dispSpeed = disp ?? 0;
+        bool without = plan is not null && disp is null;
+        bool with = without || (plan is double p && disp is double d && PumpsOver(tws, twa, d, p));
+        double get = with ? plan!.Value : disp ?? plan ?? 0;
+        if (!canGetPlaning && !with) return new Branches(disp, plan, get, get, dropOffWind, 0, without, with);
+        if (disp is null && plan is not null) return new Branches(disp, plan, get, plan.Value, dropOffWind, 1, without, with);
+        if (double.IsNaN(dropOffWind))
+        {
+            // Only the band where the share of time planing is neither 0 nor 1 matters: search it alone.
+            double sd = GustShare * Math.Max(tws, 0.5);
+            dropOffWind = DropOffWind(twa, Math.Max(0.5, tws - SearchSigmas * sd), tws + SearchSigmas * sd);
+        }
+        // Share of time the wind at the rider is above the drop-off wind: a normal wind around the mean with sd GustShare x TWS.
+        double share = double.IsInfinity(dropOffWind) ? 0 : NormalCdf((tws - dropOffWind) / (GustShare * Math.Max(tws, 0.5)));
+        // Planing speed in the gusts that carry the board: at this wind where the branch exists, else the speed the branch
+        // starts with at the drop-off wind (so the sustained speed is continuous across the drop-off).
+        double planSpeed = plan ?? (double.IsInfinity(dropOffWind) ? dispSpeed : Roots(dropOffWind + 0.02, twa).Plan ?? dispSpeed);
+        double sustained = share * planSpeed + (1 - share) * dispSpeed;
+        return new Branches(disp, plan, get, sustained, dropOffWind, share, without, with);
+    }
+
+    /// <summary>Standard normal distribution function (Abramowitz and Stegun 7.1.26 for erf, error below 1.5e-7).</summary>
+    public static double NormalCdf(double z)
+    {
+        double x = Math.Abs(z) / Math.Sqrt(2);
+        double t = 1 / (1 + 0.3275911 * x);
+        double erf = 1 - (((((1.061405429 * t - 1.453152027) * t) + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.Exp(-x * x);
+        return z >= 0 ? 0.5 * (1 + erf) : 0.5 * (1 - erf);
+    }
+}
