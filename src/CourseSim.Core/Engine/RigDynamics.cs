@@ -258,4 +258,35 @@ public sealed class RigDynamics
         double finDrag = Fin(s.Side, speed, out _, out _);
         return s.Drive - finDrag - Physics.Resistance(speed);
     }
+
+    /// <summary>Speed (m/s) from which a board getting going counts as planing (<see cref="Hull.HullModel.PlaningFroude"/>).</summary>
+    public double PlaningSpeed => Hull.SpeedAtFroude(CourseSim.Hull.HullModel.PlaningFroude);
+
+    /// <summary>Speed (m/s) below which a planing board drops off the plane (<see cref="Hull.HullModel.DropOffFroude"/>).</summary>
+    public double DropOffSpeed => Hull.SpeedAtFroude(CourseSim.Hull.HullModel.DropOffFroude);
+
+    /// <summary>Pumping thrust (N) at board speed V with the rider's short-burst power, bounded by the boom pull
+    /// (<see cref="Rider.RiderModel.MaxPumpThrustN"/>).</summary>
+    public double BurstPumpThrust(double speed) => Rider.PumpThrust(Rider.PowerFor(VelocityPrediction.PumpBurstS), speed);
+
+    /// <summary>
+    /// Time (s) for a board at <paramref name="fromSpeed"/> (m/s) to get planing at true wind speed (m/s, 10 m) and angle
+    /// (rad), sheeted to the most the rider can hold, pumping or not: the surge equation m dV/dt = F(V) + pump(V)
+    /// integrated in 0.05 s steps (semi-implicit Euler, as the race step) until the board reaches
+    /// <see cref="PlaningSpeed"/>. Infinity if it does not within <paramref name="maxS"/> (stuck under the hump). What a
+    /// manoeuvre that leaves the plane costs on top of the turn itself comes out of this.
+    /// </summary>
+    public double TimeToPlane(double twsMs, double twaRad, double fromSpeed, bool pumping, double maxS = 120)
+    {
+        const double dt = 0.05;
+        double atRig = twsMs * GradientFactor(twsMs), twa = Math.Abs(Unit.WrapRadPi(twaRad));
+        double target = PlaningSpeed, v = Math.Max(0, fromSpeed);
+        for (double t = 0; t < maxS; t += dt)
+        {
+            if (v >= target) return t;
+            double f = SteadyNetForce(atRig, twa, v) + (pumping ? BurstPumpThrust(v) : 0);
+            v = Math.Max(0, v + f * dt / MassKg);
+        }
+        return double.PositiveInfinity;
+    }
 }

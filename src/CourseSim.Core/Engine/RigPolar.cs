@@ -38,8 +38,6 @@ public sealed class RigPolar
         double burst = rig.Physics.Rider.PowerFor(VelocityPrediction.PumpBurstS);
         var branches = new PlaningBranches((tws, twa, v) => rig.SteadyNetForce(tws * rig.GradientFactor(tws), twa, v),
             v => rig.Physics.Rider.PumpThrust(burst, v), rig.Hull.SpeedAtFroude(Hull.HullModel.DropOffFroude), 40);
-        var drop = new double[TwaSteps + 1];
-        for (int a = 0; a <= TwaSteps; a++) drop[a] = branches.DropOffWind(Unit.DegToRad(a), Unit.KnotsToMs(TwsMaxKn));
         var get = new bool[TwaSteps + 1];
         for (int w = 0; w < _nt; w++)
         {
@@ -49,14 +47,14 @@ public sealed class RigPolar
             bool canGet = false;
             for (int a = 0; a <= TwaSteps; a++)
             {
-                at[a] = branches.At(tws, Unit.DegToRad(a), false, drop[a]);
+                at[a] = branches.At(tws, Unit.DegToRad(a), false);
                 get[a] = at[a].PlanesWithPumping;
                 canGet |= get[a];
             }
             double bestUp = 0, bestDown = 0; int upAt = 45, downAt = 150, getUp = -1, getDown = -1;
             for (int a = 0; a <= TwaSteps; a++)
             {
-                var br = canGet ? branches.At(tws, Unit.DegToRad(a), true, drop[a]) : at[a];
+                var br = canGet ? branches.At(tws, Unit.DegToRad(a), true) : at[a];
                 double v = br.Sustained;
                 _speed[w * (TwaSteps + 1) + a] = (float)v;
                 _get[w * (TwaSteps + 1) + a] = (float)br.GetPlaning;

@@ -68,7 +68,7 @@ public sealed class BoardPhysics : IBoardModel
         WaterViscosity = water.KinematicViscosity;
         Rider = new RiderModel(eq.Rider);
         MassKg = eq.TotalMassKg;
-        Hull = new HullModel(eq.Board, eq.TotalMassKg, WaterDensity, WaterViscosity);
+        Hull = new HullModel(eq.Board, eq.TotalMassKg, WaterDensity, WaterViscosity, chopDragAreaM2: eq.Conditions.ChopDragAreaCm2 * 1e-4);
         RigHeightM = DeckHeightM + Sail.CentreOfEffortM;
         BoomHeightM = Math.Min(RiderModel.BoomHeightM, Sail.CentreOfEffortM);
         _windage = (eq.Rider.DragAreaM2 + RigWindageM2) / Sail.AreaM2;

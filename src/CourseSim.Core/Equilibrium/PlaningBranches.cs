@@ -85,19 +85,28 @@ public sealed class PlaningBranches
 
     /// <summary>Least true wind (m/s) in which the planing branch exists at this angle (bisection to 0.02 m/s); infinity if none below <paramref name="maxTws"/>.</summary>
     public double DropOffWind(double twa, double maxTws) => DropOffWind(twa, 0.5, maxTws);
-
     /// <summary>The drop-off wind searched between <paramref name="lo"/> and <paramref name="hi"/> (m/s): lo if the branch
-    /// exists there already, infinity if not even at hi.</summary>
+    /// exists there already, infinity if it exists nowhere on the way up to hi. The branch need not exist at every wind
+    /// above its drop-off (close-hauled in a strong wind the overpowered rider cannot hold it), so the search scans up
+    /// from lo in small steps to the first wind with the branch, then bisects the last step.</summary>
     public double DropOffWind(double twa, double lo, double hi)
     {
-        if (Roots(hi, twa).Plan is null) return double.PositiveInfinity;
         if (Roots(lo, twa).Plan is not null) return lo;
-        while (hi - lo > 0.02)
+        double step = Math.Max(0.25, (hi - lo) / 24), prev = lo, w = lo;
+        while (true)
         {
-            double mid = 0.5 * (lo + hi);
-            if (Roots(mid, twa).Plan is not null) hi = mid; else lo = mid;
+            w = Math.Min(hi, w + step);
+            if (Roots(w, twa).Plan is not null) break;
+            if (w >= hi) return double.PositiveInfinity;
+            prev = w;
         }
-        return hi;
+        double a = prev, b = w;
+        while (b - a > 0.02)
+        {
+            double mid = 0.5 * (a + b);
+            if (Roots(mid, twa).Plan is not null) b = mid; else a = mid;
+        }
+        return b;
     }
 
     /// <summary>
@@ -112,19 +121,30 @@ public sealed class PlaningBranches
         bool with = without || (plan is double p && disp is double d && PumpsOver(tws, twa, d, p));
         double get = with ? plan!.Value : disp ?? plan ?? 0;
         if (!canGetPlaning && !with) return new Branches(disp, plan, get, get, dropOffWind, 0, without, with);
-        if (disp is null && plan is not null) return new Branches(disp, plan, get, plan.Value, dropOffWind, 1, without, with);
+        double sd = GustShare * Math.Max(tws, 0.5);
         if (double.IsNaN(dropOffWind))
         {
             // Only the band where the share of time planing is neither 0 nor 1 matters: search it alone.
-            double sd = GustShare * Math.Max(tws, 0.5);
-            dropOffWind = DropOffWind(twa, Math.Max(0.5, tws - SearchSigmas * sd), tws + SearchSigmas * sd);
+            dropOffWind = DropOffWind(twa, Math.Max(0.5, tws - SearchSigmas * sd), plan is not null ? tws : tws + SearchSigmas * sd);
         }
-        // Share of time the wind at the rider is above the drop-off wind: a normal wind around the mean with sd GustShare x TWS.
-        double share = double.IsInfinity(dropOffWind) ? 0 : NormalCdf((tws - dropOffWind) / (GustShare * Math.Max(tws, 0.5)));
-        // Planing speed in the gusts that carry the board: at this wind where the branch exists, else the speed the branch
-        // starts with at the drop-off wind (so the sustained speed is continuous across the drop-off).
-        double planSpeed = plan ?? (double.IsInfinity(dropOffWind) ? dispSpeed : Roots(dropOffWind + 0.02, twa).Plan ?? dispSpeed);
-        double sustained = share * planSpeed + (1 - share) * dispSpeed;
+        // The wind at the rider is normal around the mean with sd GustShare x TWS. The board planes while it is above the
+        // drop-off wind (share of time = the probability of that), at the planing speed of the mean wind above the
+        // drop-off; in the lulls below it, it sails at the lower branch's speed of the mean wind below the drop-off. Both
+        // conditional means move smoothly with the drop-off wind, so the sustained speed has no cliff where the planing
+        // branch ends (the inverse Mills ratio phi(z)/Phi(z) gives the conditional means).
+        if (double.IsPositiveInfinity(dropOffWind))
+            return new Branches(disp, plan, get, dispSpeed, dropOffWind, 0, without, with);
+        double z = (tws - dropOffWind) / sd;
+        double share = NormalCdf(z);
+        if (share > 1 - 1e-4 && plan is double pl)
+            return new Branches(disp, plan, get, pl, dropOffWind, 1, without, with);
+        double pdf = Math.Exp(-0.5 * z * z) / Math.Sqrt(2 * Math.PI);
+        double above = Math.Max(tws + sd * pdf / Math.Max(share, 1e-12), dropOffWind + 0.02);
+        double below = Math.Min(tws - sd * pdf / Math.Max(1 - share, 1e-12), dropOffWind - 0.02);
+        double planSpeed = Roots(above, twa).Plan ?? plan ?? dispSpeed;
+        var low = Roots(Math.Max(below, 0.1), twa);
+        double lowSpeed = low.Disp ?? (low.Plan is null ? 0 : dispSpeed);
+        double sustained = share * planSpeed + (1 - share) * lowSpeed;
         return new Branches(disp, plan, get, sustained, dropOffWind, share, without, with);
     }
 

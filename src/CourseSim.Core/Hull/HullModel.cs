@@ -36,7 +36,7 @@ public sealed class HullModel
     /// <summary>Volume Froude number below which a planing board drops off the plane (model value: the far side of the
     /// resistance hump, where the lift still carries about two thirds of the weight).</summary>
     public const double DropOffFroude = 2.4;
-    public const double WaveCoefficient = 0.008;
+    public const double WaveCoefficient = 0.005;
     public const double FormFactor = 1.1;
     const double TableStep = 0.05;
     const double TableMax = 40.0;
@@ -51,9 +51,13 @@ public sealed class HullModel
     // Resistance and lift fraction only, in single precision: the race step's compact copy (stays in cache).
     readonly float[] _fast;
 
-    public HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity = 9.80665)
+    /// <summary>Drag area (m2, on the water's dynamic pressure) of spray and chop added to the planing hull's flat-water drag.</summary>
+    public double ChopDragAreaM2 { get; }
+
+    public HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity = 9.80665, double chopDragAreaM2 = 0)
     {
         Spec = spec;
+        ChopDragAreaM2 = chopDragAreaM2;
         _rho = density; _nu = kinematicViscosity; _g = gravity;
         WeightN = totalMassKg * gravity;
         DisplacementM3 = totalMassKg / density;
@@ -108,7 +112,7 @@ public sealed class HullModel
         double displaced = friction + wave;
         if (phi <= 0) return new HullState(displaced, 0, 0, Spec.LengthM);
         var p = BestPlaning(Math.Max(v, 0.5));
-        double planing = p.Drag;
+        double planing = p.Drag + 0.5 * _rho * v * v * ChopDragAreaM2;
         double res = (1 - phi) * displaced + phi * planing;
         return new HullState(res, phi, p.TrimDeg, Math.Min(p.Lambda * PlaningBeamM, Spec.LengthM));
     }
