@@ -37,11 +37,12 @@ public static class PolarCommand
         string dir = outDir ?? Path.Combine("out", polars.Count == 1 ? $"polar-{Slug(polars[0].Name)}" : $"compare-{Slug(polars[0].Name)}-{Slug(polars[1].Name)}");
         Directory.CreateDirectory(dir);
         var written = new List<string>();
-        foreach (var p in polars)
+        for (int k = 0; k < polars.Count; k++)
         {
+            var p = polars[k];
             string stem = polars.Count == 1 ? "polar" : $"polar-{Slug(p.Name)}";
             File.WriteAllText(Path.Combine(dir, stem + ".csv"), Csv(p));
-            PolarCharts.Polar(p, Path.Combine(dir, stem + ".png"));
+            PolarCharts.Polar(p, Path.Combine(dir, stem + ".png"), PolarCharts.Describe(equipment[k]));
             written.Add(Path.Combine(dir, stem + ".csv")); written.Add(Path.Combine(dir, stem + ".png"));
         }
         PolarComparison? cmp = null;
