@@ -45,11 +45,16 @@ public sealed class PlaningBranches
         _net = net; _pump = pumpThrust; _dropOffSpeed = dropOffSpeed; _maxSpeed = maxSpeed;
     }
 
-    /// <summary>Stable roots of F at one wind speed and angle: the lowest below the drop-off speed and the fastest above it.</summary>
+    /// <summary>
+    /// Stable roots of F at one wind speed and angle. With two or more, the lowest is the displacement speed (under or on
+    /// the front of the hump) and the fastest the planing one if it is at or above the drop-off speed; a single root is
+    /// planing at or above the drop-off speed, displacement below it.
+    /// </summary>
     public (double? Disp, double? Plan) Roots(double tws, double twa)
     {
         int n = (int)(Math.Min(_maxSpeed, 2.2 * tws + 5.0) / SpeedStep);
-        double? disp = null, plan = null;
+        double? lowest = null, highest = null;
+        int count = 0;
         double vPrev = 0.05, fPrev = _net(tws, twa, vPrev);
         for (int i = 1; i <= n; i++)
         {
@@ -57,12 +62,13 @@ public sealed class PlaningBranches
             if (fPrev > 0 && f <= 0)
             {
                 double root = Refine(tws, twa, vPrev, v, fPrev, f);
-                if (root >= _dropOffSpeed) plan = root;
-                else disp ??= root;
+                lowest ??= root; highest = root; count++;
             }
             vPrev = v; fPrev = f;
         }
-        return (disp, plan);
+        if (count == 0) return (null, null);
+        if (count == 1) return highest >= _dropOffSpeed ? (null, highest) : (lowest, null);
+        return (lowest, highest >= _dropOffSpeed ? highest : null);
     }
 
     double Refine(double tws, double twa, double a, double b, double fa, double fb)

@@ -152,8 +152,8 @@ public class ValidationTests
         }
     }
 
-    // Planing with hysteresis (docs/physics.md, "Planing with hysteresis"): on the planing branch, away from its end at
-    // the drop-off speed, no adjacent-degree step over 2.5 kn (the documented bound: the steepest fall of the planing speed
+    // Planing with hysteresis (docs/physics.md, "Planing with hysteresis"): on the planing branch, more than 2 kn above
+    // the drop-off speed (its end is a fold), no adjacent-degree step over 2.5 kn (the documented bound: the steepest fall of the planing speed
     // past the best downwind angle, where the apparent wind collapses); the sustained speed falls from the planing to the
     // displacement branch over the band the gusts spread the drop-off across, with no step over 2.5 kn or 0.45 of the gap
     // between the branches, whichever is larger (the documented bound for GustShare 0.10).
@@ -163,7 +163,9 @@ public class ValidationTests
     public void NoCliffsBetweenAdjacentDegrees(string rig)
     {
         var vpp = Vpp(rig);
-        double end = vpp.Board.Hull.SpeedAtFroude(CourseSim.Hull.HullModel.DropOffFroude) + Ms(1);
+        // The planing equilibrium ends in a fold (it merges with the unstable one and vanishes), where its speed moves as the
+        // square root of the distance to the fold: the last 2 kn above the drop-off speed are left to the sustained check.
+        double end = vpp.Board.Hull.SpeedAtFroude(CourseSim.Hull.HullModel.DropOffFroude) + Ms(2);
         var bad = new List<string>();
         foreach (double kn in new[] { 12.0, 16, 20, 25 })
         {
