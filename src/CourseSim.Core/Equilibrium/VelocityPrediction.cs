@@ -118,7 +118,9 @@ public sealed class VelocityPrediction
         try
         {
             var r = GoldenSectionMinimizer.Minimum(ObjectiveFunction.ScalarValue(x => -Vmg(x)), a, b, 1e-3, 200);
-            if (-r.FunctionInfoAtMinimum.Value > bestV) { bestX = r.MinimizingPoint; bestV = -r.FunctionInfoAtMinimum.Value; }
+            // The minimiser may step outside its bracket: keep the angle within lo..hi and its value consistent.
+            double x = Math.Clamp(r.MinimizingPoint, lo, hi), val = Vmg(x);
+            if (val > bestV) { bestX = x; bestV = val; }
         }
         catch (MathNet.Numerics.Optimization.OptimizationException) { /* keep the scan's best */ }
         return (bestX, bestV, SpeedAt(twsMs, bestX));
