@@ -37,11 +37,12 @@ public static class PolarCommand
         string dir = outDir ?? Path.Combine("out", polars.Count == 1 ? $"polar-{Slug(polars[0].Name)}" : $"compare-{Slug(polars[0].Name)}-{Slug(polars[1].Name)}");
         Directory.CreateDirectory(dir);
         var written = new List<string>();
-        foreach (var p in polars)
+        for (int k = 0; k < polars.Count; k++)
         {
+            var p = polars[k];
             string stem = polars.Count == 1 ? "polar" : $"polar-{Slug(p.Name)}";
             File.WriteAllText(Path.Combine(dir, stem + ".csv"), Csv(p));
-            PolarCharts.Polar(p, Path.Combine(dir, stem + ".png"));
+            PolarCharts.Polar(p, Path.Combine(dir, stem + ".png"), PolarCharts.Describe(equipment[k]));
             written.Add(Path.Combine(dir, stem + ".csv")); written.Add(Path.Combine(dir, stem + ".png"));
         }
         PolarComparison? cmp = null;
@@ -103,10 +104,11 @@ public static class PolarCommand
 
     public static string Csv(Polar p)
     {
-        var sb = new StringBuilder("tws_kn,twa_deg,speed_kn,vmg_kn,leeway_deg,aoa_deg,heel_use,planing,displacement_speed_kn,planing_speed_kn,awa_deg,aws_kn\n");
+        var sb = new StringBuilder("tws_kn,twa_deg,speed_kn,vmg_kn,leeway_deg,aoa_deg,heel_use,planing,displacement_speed_kn,planing_speed_kn,awa_deg,aws_kn,get_planing_speed_kn,planing_share,harness_n\n");
         foreach (var x in p.Points)
             sb.Append(string.Join(',', F(x.TwsKn, "0.##"), F(x.TwaDeg, "0.##"), F(x.SpeedKn), F(x.VmgKn), F(x.LeewayDeg), F(x.AoaDeg), F(x.HeelUse, "0.000"),
-                x.Planing ? "true" : "false", F(x.DisplacementSpeedKn), F(x.PlaningSpeedKn), F(x.AwaDeg, "0.0"), F(x.AwsKn))).Append('\n');
+                x.Planing ? "true" : "false", F(x.DisplacementSpeedKn), F(x.PlaningSpeedKn), F(x.AwaDeg, "0.0"), F(x.AwsKn),
+                F(x.GetPlaningSpeedKn), F(x.PlaningShare, "0.000"), F(x.HarnessN, "0"))).Append('\n');
         return sb.ToString();
     }
 

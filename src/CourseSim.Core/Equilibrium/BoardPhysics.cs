@@ -18,10 +18,10 @@ public readonly record struct TrimState(
 }
 
 /// <summary>
-/// The resolved physics of one set-up: sail, fin, hull and rider models with the air and water they work in.
-/// Immutable and thread-safe; build once per set-up and share.
+/// The planing fin board: the first <see cref="IBoardModel"/> (docs/physics.md, "The board model"). Sail, fin, hull and
+/// rider models with the air and water they work in. Immutable and thread-safe; build once per set-up and share.
 /// </summary>
-public sealed class BoardPhysics
+public sealed class BoardPhysics : IBoardModel
 {
     /// <summary>Smallest boom angle to the centreline the rider can sheet to, deg (common practice: boom near the centreline).</summary>
     public const double MinBoomAngleDeg = 2.0;
@@ -31,6 +31,11 @@ public sealed class BoardPhysics
     public const double HullSideLiftToDrag = 3.0;
     /// <summary>Height of the mast foot (deck) above the water, m.</summary>
     public const double DeckHeightM = 0.10;
+    /// <summary>Drag area of the rig's spars and fittings outside the sail (boom arms, extension, uphaul), m2
+    /// (from memory: two 3 cm boom tubes about 2 m long at a drag coefficient of 1.2 make 0.14 m2 broadside; the mast is
+    /// in the sail's profile drag).</summary>
+    public const double RigWindageM2 = 0.12;
+    const double FinStep = 0.05, FinMax = 40;
 
     public Equipment Equipment { get; }
     public SailModel Sail { get; }
@@ -40,8 +45,16 @@ public sealed class BoardPhysics
     public double AirDensity { get; }
     public double WaterDensity { get; }
     public double WaterViscosity { get; }
+    public double MassKg { get; }
     /// <summary>Centre of effort height above the water, m: where the wind gradient is evaluated.</summary>
     public double RigHeightM { get; }
+    public double MaxHeelingMomentNm => Rider.MaxHeelingMomentNm;
+    /// <summary>Boom height above the mast foot, m (<see cref="RiderModel.BoomHeightM"/>).</summary>
+    public double BoomHeightM { get; }
+    readonly double _windage; // (rider + rig windage) / sail area
+    readonly double[] _finProfile; // fin profile drag coefficient by water speed
+    // Fin constants: 0.5 rho A, the ventilation lift coefficient, the induced-drag factor 1/(pi e AR), 1/slope, the leeway cap.
+    readonly double _finQ, _finMaxLift, _finInduced, _finInvSlope, _finLeewayCap;
 
     public BoardPhysics(Equipment eq)
     {
@@ -54,12 +67,73 @@ public sealed class BoardPhysics
         WaterDensity = water.Density;
         WaterViscosity = water.KinematicViscosity;
         Rider = new RiderModel(eq.Rider);
-        Hull = new HullModel(eq.Board, eq.TotalMassKg, WaterDensity, WaterViscosity);
+        MassKg = eq.TotalMassKg;
+        Hull = new HullModel(eq.Board, eq.TotalMassKg, WaterDensity, WaterViscosity, chopDragAreaM2: eq.Conditions.ChopDragAreaCm2 * 1e-4);
         RigHeightM = DeckHeightM + Sail.CentreOfEffortM;
+        BoomHeightM = Math.Min(RiderModel.BoomHeightM, Sail.CentreOfEffortM);
+        _windage = (eq.Rider.DragAreaM2 + RigWindageM2) / Sail.AreaM2;
+        _finProfile = new double[(int)(FinMax / FinStep) + 2];
+        for (int i = 0; i < _finProfile.Length; i++) _finProfile[i] = Fin.ProfileDrag(i * FinStep, WaterViscosity);
+        _finQ = 0.5 * WaterDensity * Fin.AreaM2;
+        _finMaxLift = Fin.Spec.MaxLift;
+        _finInduced = Wings.WingTheory.InducedDrag(1, Fin.EffectiveAspectRatio, FinModel.SpanEfficiency);
+        _finInvSlope = 1 / Fin.LiftSlope;
+        _finLeewayCap = Fin.Spec.MaxLift / Fin.LiftSlope * 1.5;
     }
 
     /// <summary>Wind speed at the rig (m/s) for a 10 m wind speed (m/s).</summary>
     public double WindAtRig(double u10) => WindGradient.SpeedAt(u10, RigHeightM);
+
+    /// <summary>Sail lift and drag with the windage of rider and rig resolved along and across the motion, per q A.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public RigCoefficients Rig(double betaRad, double alphaRad)
+    {
+        var c = Sail.At(alphaRad);
+        double s = Math.Sin(betaRad), co = Math.Cos(betaRad);
+        double sailSide = c.Lift * co + c.Drag * s;
+        return new RigCoefficients(c.Lift * s - (c.Drag + _windage) * co, sailSide + _windage * s, Math.Abs(sailSide));
+    }
+
+    /// <summary>The rider sheets between just below luffing and 95 deg past the apparent wind, the boom no closer than <see cref="MinBoomAngleDeg"/>.</summary>
+    public (double Lo, double Hi) SheetingRange(double betaRad)
+    {
+        double lo = Math.Max(Sail.LuffAngle - Unit.DegToRad(2), betaRad - Unit.DegToRad(95));
+        double hi = Math.Min(betaRad - Unit.DegToRad(MinBoomAngleDeg), Math.PI / 2);
+        return (lo, hi);
+    }
+
+    /// <summary>
+    /// Fin drag and leeway for side force <paramref name="side"/> (N) at water speed V (m/s). A fin asked for more than its
+    /// ventilation lift carries its maximum and the rails carry the rest at <see cref="HullSideLiftToDrag"/>; above
+    /// <see cref="SpinOutMinSpeed"/> that is a spin-out. Profile drag is tabulated by speed (0.05 m/s steps).
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public FinLoad FinLoadAt(double side, double speed)
+    {
+        double x = Math.Clamp(speed, 0, FinMax) * (1 / FinStep);
+        int i = Math.Min((int)x, _finProfile.Length - 2);
+        double cd0 = _finProfile[i] + (x - i) * (_finProfile[i + 1] - _finProfile[i]);
+        double qf = _finQ * speed * speed;
+        if (qf < 1e-9) return new FinLoad(0, 0, false);
+        double abs = Math.Abs(side);
+        double cl = abs / qf;
+        if (cl > _finMaxLift)
+        {
+            double drag = qf * (cd0 + _finInduced * _finMaxLift * _finMaxLift) + (abs - _finMaxLift * qf) * (1 / HullSideLiftToDrag);
+            return new FinLoad(drag, _finLeewayCap, speed >= SpinOutMinSpeed);
+        }
+        return new FinLoad(qf * (cd0 + _finInduced * cl * cl), Math.Min(cl * _finInvSlope, _finLeewayCap), false);
+    }
+
+    /// <summary>Largest side force (N) the fin carries at water speed V before it ventilates.</summary>
+    public double FinCapacity(double speed) => _finMaxLift * _finQ * speed * speed;
+
+    public double Resistance(double speed) => Hull.At(speed).Resistance;
+    double IBoardModel.Resistance(double speed, bool planing) => Hull.At(speed).Resistance;
+
+    public bool IsPlaning(double speed, bool wasPlaning) => Hull.IsPlaning(speed, wasPlaning);
+
+    public RiderLoads Loads(in TrimState trim) => RiderLoads.For(this, trim);
 
     /// <summary>
     /// Forces at attack angle <paramref name="alpha"/> (rad) for wind <paramref name="windAtRig"/> (m/s, at rig height),
@@ -74,30 +148,14 @@ public sealed class BoardPhysics
     public TrimState Evaluate(in ApparentWind aw, double speed, double alpha)
     {
         var c = Sail.At(alpha);
-        double q = 0.5 * AirDensity * aw.Speed * aw.Speed;
-        double lift = q * Sail.AreaM2 * c.Lift;
-        double drag = q * Sail.AreaM2 * c.Drag;
-        double riderDrag = q * Equipment.Rider.DragAreaM2;
-        double s = Math.Sin(aw.AngleRad), co = Math.Cos(aw.AngleRad);
-        double drive = lift * s - (drag + riderDrag) * co;
-        double sailSide = lift * co + drag * s;
-        double side = sailSide + riderDrag * s;
-        double heelUse = Math.Abs(sailSide) * Sail.CentreOfEffortM / Rider.MaxHeelingMomentNm;
-        var fin = Fin.Carry(side, speed, WaterDensity, WaterViscosity);
-        double finDrag = fin.Drag;
-        bool spun = false;
-        if (fin.Lift > Fin.Spec.MaxLift)
-        {
-            if (speed >= SpinOutMinSpeed) spun = true;
-            // Saturated fin: it carries its maximum, the rails carry the rest at a poor lift-to-drag ratio.
-            double qf = 0.5 * WaterDensity * speed * speed * Fin.AreaM2;
-            double carried = Fin.Spec.MaxLift * qf;
-            finDrag = qf * (Fin.ProfileDrag(speed, WaterViscosity) + Wings.WingTheory.InducedDrag(Fin.Spec.MaxLift, Fin.EffectiveAspectRatio, FinModel.SpanEfficiency))
-                      + (Math.Abs(side) - carried) / HullSideLiftToDrag;
-        }
-        double leeway = Math.Min(fin.Incidence, Fin.Spec.MaxLift / Fin.LiftSlope * 1.5);
-        bool feasible = heelUse <= 1.0 + 1e-9 && !spun;
-        return new TrimState(alpha, aw.Speed, aw.AngleRad, drive, side, heelUse, finDrag, leeway, lift, drag, feasible);
+        double qa = 0.5 * AirDensity * aw.Speed * aw.Speed * Sail.AreaM2;
+        var r = Rig(aw.AngleRad, alpha);
+        double side = qa * r.Side;
+        double heelUse = qa * r.SailSide * Sail.CentreOfEffortM / Rider.MaxHeelingMomentNm;
+        var fin = FinLoadAt(side, speed);
+        bool feasible = heelUse <= 1.0 + 1e-9 && !fin.SpunOut;
+        return new TrimState(alpha, aw.Speed, aw.AngleRad, qa * r.Drive, side, heelUse, fin.Drag, fin.LeewayRad,
+            qa * c.Lift, qa * c.Drag, feasible);
     }
 
     /// <summary>
@@ -108,9 +166,7 @@ public sealed class BoardPhysics
     public TrimState BestTrim(double windAtRig, double twaRad, double speed)
     {
         var aw = ApparentWind.From(windAtRig, twaRad, speed);
-        double minBoom = Unit.DegToRad(MinBoomAngleDeg);
-        double lo = Math.Max(Sail.LuffAngle - Unit.DegToRad(2), aw.AngleRad - Unit.DegToRad(95));
-        double hi = Math.Min(aw.AngleRad - minBoom, Math.PI / 2);
+        var (lo, hi) = SheetingRange(aw.AngleRad);
         if (hi <= lo)
         {
             // Head to wind: the sail can only luff.
@@ -150,6 +206,6 @@ public sealed class BoardPhysics
     {
         trim = BestTrim(windAtRig, twaRad, speed);
         double thrust = trim.Feasible ? trim.Thrust : Math.Min(trim.Thrust, 0);
-        return thrust - Hull.At(speed).Resistance;
+        return thrust - Resistance(speed);
     }
 }

@@ -12,6 +12,12 @@ public sealed record ConditionsSpec
     public double WaterTemperatureC { get; init; } = 15;
     /// <summary>Salinity, g/kg; 0 is fresh water.</summary>
     public double SalinityGPerKg { get; init; } = 35.16504;
+    /// <summary>Drag area of spray and chop on a planing board, cm2 on the water's dynamic pressure (docs/physics.md,
+    /// "Spray and chop"); 0 is flat water without spray drag.</summary>
+    public double ChopDragAreaCm2 { get; init; } = DefaultChopDragAreaCm2;
+    /// <summary>Default spray and chop drag area, cm2: a calibration, not a measurement (docs/validation.md): set so that
+    /// the demo rigs' top and downwind speeds come nearer the published course-racing and speed figures.</summary>
+    public const double DefaultChopDragAreaCm2 = 20;
 }
 
 /// <summary>One complete set-up: rider, sail, fin, board and conditions.</summary>

@@ -38,6 +38,7 @@ public static class EquipmentFile
         KeySpec.Number("conditions.air_temp_c", -10, 45, 15, "air temperature, C"),
         KeySpec.Number("conditions.water_temp_c", 0, 35, 15, "water temperature, C"),
         KeySpec.Number("conditions.salinity_g_per_kg", 0, 42, 35.16504, "salinity, g/kg (0 for fresh water)"),
+        KeySpec.Number("conditions.chop_drag_area_cm2", 0, 60, ConditionsSpec.DefaultChopDragAreaCm2, "spray and chop drag area of the planing board, cm2 (0 flat water)"),
     ]);
 
     public static Equipment Load(string path, IEnumerable<string>? overrides = null)
@@ -72,7 +73,7 @@ public static class EquipmentFile
             Conditions = new ConditionsSpec
             {
                 AirTemperatureC = f.Number("conditions.air_temp_c"), WaterTemperatureC = f.Number("conditions.water_temp_c"),
-                SalinityGPerKg = f.Number("conditions.salinity_g_per_kg"),
+                SalinityGPerKg = f.Number("conditions.salinity_g_per_kg"), ChopDragAreaCm2 = f.Number("conditions.chop_drag_area_cm2"),
             },
         };
         double volumeNeeded = eq.TotalMassKg / 1.0; // litres of fresh water the set-up displaces

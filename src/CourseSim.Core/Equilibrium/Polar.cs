@@ -3,8 +3,12 @@ using CourseSim.Units;
 namespace CourseSim.Equilibrium;
 
 /// <summary>One point of a polar, in the units riders use (knots, degrees).</summary>
+/// <remarks><c>SpeedKn</c> is the sustained speed (planing with hysteresis in a gusty wind); <c>GetPlaningSpeedKn</c> the
+/// speed a rider starting off the plane at this angle reaches; <c>PlaningShare</c> the share of time on the plane behind
+/// the sustained speed; <c>HarnessN</c> the harness-line force at the sustained state.</remarks>
 public sealed record PolarPoint(double TwsKn, double TwaDeg, double SpeedKn, double VmgKn, double LeewayDeg, double AoaDeg,
-    double HeelUse, bool Planing, double? DisplacementSpeedKn, double? PlaningSpeedKn, double AwaDeg, double AwsKn);
+    double HeelUse, bool Planing, double? DisplacementSpeedKn, double? PlaningSpeedKn, double AwaDeg, double AwsKn,
+    double GetPlaningSpeedKn = double.NaN, double PlaningShare = 0, double HarnessN = 0);
 
 /// <summary>Best VMG at one wind speed, upwind or downwind.</summary>
 public sealed record VmgPoint(double TwsKn, double TwaDeg, double VmgKn, double SpeedKn);
@@ -50,7 +54,8 @@ public sealed record Polar(string Name, IReadOnlyList<PolarPoint> Points, IReadO
                 points.Add(new PolarPoint(windsKn[w], a, kn, kn * Math.Cos(Unit.DegToRad(a)),
                     Unit.RadToDeg(st.Trim.LeewayRad), Unit.RadToDeg(st.Trim.AttackRad), Math.Clamp(st.Trim.HeelUse, 0, 1),
                     st.Planing, s.Displacement is { } d ? Unit.MsToKnots(d.Speed) : null, s.Planing is { } p ? Unit.MsToKnots(p.Speed) : null,
-                    Unit.RadToDeg(st.Trim.ApparentAngleRad), Unit.MsToKnots(st.Trim.ApparentSpeed)));
+                    Unit.RadToDeg(st.Trim.ApparentAngleRad), Unit.MsToKnots(st.Trim.ApparentSpeed),
+                    Unit.MsToKnots(s.GetPlaningSpeed), Math.Round(s.PlaningShare, 4), vpp.Board.Loads(st.Trim).HarnessForceN));
             }
             var (u, dn) = (BestVmg(vpp, tws, true, points, first, anglesDeg), BestVmg(vpp, tws, false, points, first, anglesDeg));
             up.Add(new VmgPoint(windsKn[w], Unit.RadToDeg(u.TwaRad), Unit.MsToKnots(u.VmgMs), Unit.MsToKnots(u.SpeedMs)));

@@ -34,7 +34,7 @@ public sealed class RigDynamics
     /// <summary>The hull and rider models (shortcuts used by the race step).</summary>
     public Hull.HullModel Hull { get; }
     public Rider.RiderModel Rider { get; }
-    readonly double _rhoAir, _rhoWater, _nu;
+    readonly double _rhoAir;
     // [beta, f] table, normalised by q A: drive, total side and sail side (for heel), interleaved so a bilinear look-up
     // touches two or three cache lines, and small enough (45 KB a rig) that a fleet's rigs stay in the L2 cache; the
     // attack angle, needed only when a sample is recorded, in a table of its own.
@@ -43,22 +43,21 @@ public sealed class RigDynamics
     readonly float[] _alpha;
     readonly double[] _fullSailSide; // |c_s*| per beta at the best unconstrained trim
     readonly double[] _gradient;
-    readonly double[] _finProfile; // fin profile drag coefficient by water speed
-    const double FinStep = 0.05, FinMax = 40;
-    // Fin constants: 0.5 rho A, the ventilation lift coefficient, the induced-drag factor 1/(pi e AR), 1/slope, the leeway cap.
-    readonly double _finQ, _finMaxLift, _finInduced, _finInvSlope, _finLeewayCap;
 
-    public RigDynamics(Equipment eq)
+    public RigDynamics(Equipment eq) : this(new BoardPhysics(eq)) { }
+
+    /// <summary>Tables built from a board model: every force comes from <see cref="IBoardModel"/>, none is recomputed here.</summary>
+    public RigDynamics(BoardPhysics board)
     {
-        Physics = new BoardPhysics(eq);
-        MassKg = eq.TotalMassKg;
+        Physics = board;
+        MassKg = board.MassKg;
         Hull = Physics.Hull; Rider = Physics.Rider;
         SailAreaM2 = Physics.Sail.AreaM2;
         CentreOfEffortM = Physics.Sail.CentreOfEffortM;
-        MaxHeelingMomentNm = Physics.Rider.MaxHeelingMomentNm;
+        MaxHeelingMomentNm = Physics.MaxHeelingMomentNm;
         MastHeightM = Physics.Sail.LuffM + BoardPhysics.DeckHeightM;
         _ceOverMaxHeel = CentreOfEffortM / MaxHeelingMomentNm;
-        _rhoAir = Physics.AirDensity; _rhoWater = Physics.WaterDensity; _nu = Physics.WaterViscosity;
+        _rhoAir = Physics.AirDensity;
         int nb = BetaSteps + 1, nf = FSteps + 1;
         _cells = new Cell[nb * nf];
         _alpha = new float[nb * nf];
@@ -66,39 +65,28 @@ public sealed class RigDynamics
         BuildTrimTable(nb, nf);
         _gradient = new double[(int)(GradientMax / GradientStep) + 2];
         for (int i = 0; i < _gradient.Length; i++) _gradient[i] = WindGradient.Factor(i * GradientStep, Physics.RigHeightM);
-        _finProfile = new double[(int)(FinMax / FinStep) + 2];
-        for (int i = 0; i < _finProfile.Length; i++) _finProfile[i] = Physics.Fin.ProfileDrag(i * FinStep, _nu);
-        var fm = Physics.Fin;
-        _finQ = 0.5 * _rhoWater * fm.AreaM2;
-        _finMaxLift = fm.Spec.MaxLift;
-        _finInduced = Wings.WingTheory.InducedDrag(1, fm.EffectiveAspectRatio, CourseSim.Fin.FinModel.SpanEfficiency);
-        _finInvSlope = 1 / fm.LiftSlope;
-        _finLeewayCap = fm.Spec.MaxLift / fm.LiftSlope * 1.5;
     }
+
+    /// <summary>The board model the tables come from.</summary>
+    public IBoardModel Board => Physics;
 
     void BuildTrimTable(int nb, int nf)
     {
-        var sail = Physics.Sail;
-        double cr = Equipment.Rider.DragAreaM2 / sail.AreaM2;
-        double minBoom = Unit.DegToRad(BoardPhysics.MinBoomAngleDeg);
-        double luff = sail.LuffAngle - Unit.DegToRad(2);
+        IBoardModel board = Physics;
         int maxN = (int)(Math.PI / AlphaStepRad) + 2;
         var dr = new double[maxN]; var sd = new double[maxN]; var ss = new double[maxN]; var al = new double[maxN];
         for (int b = 0; b < nb; b++)
         {
             double beta = Unit.DegToRad(b);
-            double sb = Math.Sin(beta), cb = Math.Cos(beta);
-            double lo = Math.Max(luff, beta - Unit.DegToRad(95)), hi = Math.Min(beta - minBoom, Math.PI / 2);
+            var (lo, hi) = board.SheetingRange(beta);
             int n;
-            if (hi <= lo) { n = 1; al[0] = luff; }
+            if (hi <= lo) { n = 1; al[0] = Physics.Sail.LuffAngle - Unit.DegToRad(2); }
             else { n = (int)Math.Ceiling((hi - lo) / AlphaStepRad) + 1; for (int i = 0; i < n; i++) al[i] = lo + (hi - lo) * i / (n - 1.0); }
             int best = 0;
             for (int i = 0; i < n; i++)
             {
-                var c = sail.At(al[i]);
-                dr[i] = c.Lift * sb - (c.Drag + cr) * cb;
-                ss[i] = Math.Abs(c.Lift * cb + c.Drag * sb);
-                sd[i] = c.Lift * cb + c.Drag * sb + cr * sb;
+                var c = board.Rig(beta, al[i]);
+                dr[i] = c.Drive; ss[i] = c.SailSide; sd[i] = c.Side;
                 if (dr[i] > dr[best]) best = i;
             }
             if (hi <= lo) dr[0] = Math.Min(dr[0], 0); // head to wind: the sail only luffs
@@ -211,36 +199,20 @@ public sealed class RigDynamics
     }
 
     /// <summary>
-    /// Fin drag (N) and leeway (rad) carrying side force <paramref name="side"/> (N) at water speed V (m/s), with the
-    /// saturated-fin rule of <see cref="BoardPhysics.Evaluate(in ApparentWind, double, double)"/>; spun is true when the fin
-    /// ventilates at speed.
+    /// Fin drag (N) and leeway (rad) carrying side force <paramref name="side"/> (N) at water speed V (m/s): the board
+    /// model's <see cref="BoardPhysics.FinLoadAt"/>; spun is true when the fin ventilates at speed.
     /// </summary>
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public double Fin(double side, double speed, out double leewayRad, out bool spun)
     {
-        double x = Math.Clamp(speed, 0, FinMax) * (1 / FinStep);
-        int i = Math.Min((int)x, _finProfile.Length - 2);
-        double cd0 = _finProfile[i] + (x - i) * (_finProfile[i + 1] - _finProfile[i]);
-        double qf = _finQ * speed * speed;
-        spun = false;
-        if (qf < 1e-9) { leewayRad = 0; return 0; }
-        double abs = Math.Abs(side);
-        double cl = abs / qf;
-        double drag;
-        if (cl > _finMaxLift)
-        {
-            // Saturated fin: it carries its maximum, the rails carry the rest at a poor lift-to-drag ratio.
-            spun = speed >= BoardPhysics.SpinOutMinSpeed;
-            drag = qf * (cd0 + _finInduced * _finMaxLift * _finMaxLift) + (abs - _finMaxLift * qf) * (1 / BoardPhysics.HullSideLiftToDrag);
-        }
-        else drag = qf * (cd0 + _finInduced * cl * cl);
-        leewayRad = Math.Min(cl * _finInvSlope, _finLeewayCap);
-        return drag;
+        var f = Physics.FinLoadAt(side, speed);
+        leewayRad = f.LeewayRad; spun = f.SpunOut;
+        return f.Drag;
     }
 
     /// <summary>Largest side force (N) the fin carries at water speed V before it ventilates.</summary>
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
-    public double FinCapacity(double speed) => _finMaxLift * _finQ * speed * speed;
+    public double FinCapacity(double speed) => Physics.FinCapacity(speed);
 
     /// <summary>
     /// Largest sheet fraction whose side force the fin carries at water speed V without ventilating (1 if the fin holds
@@ -283,6 +255,37 @@ public sealed class RigDynamics
         f = FinSheetCap(aw.Speed, aw.AngleRad, speed, f);
         var s = Sail(aw.Speed, aw.AngleRad, f);
         double finDrag = Fin(s.Side, speed, out _, out _);
-        return s.Drive - finDrag - Physics.Hull.At(speed).Resistance;
+        return s.Drive - finDrag - Physics.Resistance(speed);
+    }
+
+    /// <summary>Speed (m/s) from which a board getting going counts as planing (<see cref="Hull.HullModel.PlaningFroude"/>).</summary>
+    public double PlaningSpeed => Hull.SpeedAtFroude(CourseSim.Hull.HullModel.PlaningFroude);
+
+    /// <summary>Speed (m/s) below which a planing board drops off the plane (<see cref="Hull.HullModel.DropOffFroude"/>).</summary>
+    public double DropOffSpeed => Hull.SpeedAtFroude(CourseSim.Hull.HullModel.DropOffFroude);
+
+    /// <summary>Pumping thrust (N) at board speed V with the rider's short-burst power, bounded by the boom pull
+    /// (<see cref="Rider.RiderModel.MaxPumpThrustN"/>).</summary>
+    public double BurstPumpThrust(double speed) => Rider.PumpThrust(Rider.PowerFor(VelocityPrediction.PumpBurstS), speed);
+
+    /// <summary>
+    /// Time (s) for a board at <paramref name="fromSpeed"/> (m/s) to get planing at true wind speed (m/s, 10 m) and angle
+    /// (rad), sheeted to the most the rider can hold, pumping or not: the surge equation m dV/dt = F(V) + pump(V)
+    /// integrated in 0.05 s steps (semi-implicit Euler, as the race step) until the board reaches
+    /// <see cref="PlaningSpeed"/>. Infinity if it does not within <paramref name="maxS"/> (stuck under the hump). What a
+    /// manoeuvre that leaves the plane costs on top of the turn itself comes out of this.
+    /// </summary>
+    public double TimeToPlane(double twsMs, double twaRad, double fromSpeed, bool pumping, double maxS = 120)
+    {
+        const double dt = 0.05;
+        double atRig = twsMs * GradientFactor(twsMs), twa = Math.Abs(Unit.WrapRadPi(twaRad));
+        double target = PlaningSpeed, v = Math.Max(0, fromSpeed);
+        for (double t = 0; t < maxS; t += dt)
+        {
+            if (v >= target) return t;
+            double f = SteadyNetForce(atRig, twa, v) + (pumping ? BurstPumpThrust(v) : 0);
+            v = Math.Max(0, v + f * dt / MassKg);
+        }
+        return double.PositiveInfinity;
     }
 }

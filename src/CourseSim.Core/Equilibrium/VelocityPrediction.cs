@@ -1,41 +1,51 @@
 using CourseSim.Units;
 using MathNet.Numerics.Optimization;
-using MathNet.Numerics.RootFinding;
 
 namespace CourseSim.Equilibrium;
 
 /// <summary>One steady state (an equilibrium of surge force) at one true wind speed and angle.</summary>
-public readonly record struct SteadyState(double Speed, TrimState Trim, double LiftFraction)
-{
-    /// <summary>Planing: dynamic lift carries at least half the weight (volume Froude number 2 or more).</summary>
-    public bool Planing => LiftFraction >= 0.5;
-}
+public readonly record struct SteadyState(double Speed, TrimState Trim, double LiftFraction, bool Planing);
 
 /// <summary>All steady states at one true wind speed and angle, and which one the rider sails at.</summary>
+/// <param name="TwsMs">true wind speed at 10 m, m/s</param>
+/// <param name="TwaRad">true wind angle, rad (0..pi)</param>
+/// <param name="Displacement">the stable speed under the hump, if any</param>
+/// <param name="Planing">the fastest stable speed on the planing branch, if any</param>
+/// <param name="PlanesWithoutPumping">the board accelerates from rest onto the plane at this angle</param>
+/// <param name="PlanesWithPumping">pumping carries it over the hump at this angle</param>
+/// <param name="Sailed">the sustained state: its speed is the planing and displacement speeds weighted by the share of
+/// time the board stays planing in a gusty wind (<see cref="PlaningBranches"/>), its trim the one at that speed</param>
+/// <param name="GetPlaningSpeed">the speed a rider starting off the plane at this angle ends at (m/s)</param>
+/// <param name="PlaningShare">share of time on the plane behind the sustained speed</param>
+/// <param name="DropOffTwsMs">least true wind (m/s) in which the planing branch exists at this angle</param>
 public sealed record PointSolution(double TwsMs, double TwaRad, SteadyState? Displacement, SteadyState? Planing,
-    SteadyState Sailed, bool PlanesWithoutPumping, bool PlanesWithPumping);
+    SteadyState Sailed, bool PlanesWithoutPumping, bool PlanesWithPumping, double GetPlaningSpeed = 0, double PlaningShare = 0,
+    double DropOffTwsMs = double.PositiveInfinity);
 
 /// <summary>
 /// Velocity prediction: for a true wind speed (10 m height) and angle, finds every speed where the rig's thrust with the
-/// rider's best trim equals the hull's resistance (docs/physics.md, "Equilibrium"). Stable equilibria are where the net
-/// force crosses from positive to negative. Below planing there may be a displacement equilibrium under the resistance
-/// hump and a planing one above it: both are reported. The board reaches the planing one on its own if the net force is
-/// positive all the way up from rest; with pumping if the rider's short-burst pumping thrust closes the gap.
+/// rider's best trim equals the hull's resistance (docs/physics.md, "Equilibrium"), through the board model
+/// (<see cref="IBoardModel"/>, here <see cref="BoardPhysics"/>). Stable equilibria are where the net force crosses from
+/// positive to negative. Below planing there may be a displacement equilibrium under the resistance hump and a planing one
+/// above it: both are reported, with the get-planing speed (from a start off the plane at that angle, pumping over the
+/// hump) and the sustained speed (planing with hysteresis in a gusty wind: <see cref="PlaningBranches"/>).
 /// </summary>
 public sealed class VelocityPrediction
 {
     /// <summary>How long the rider can pump hard to get over the hump, s (the burst uses CP + W'/t).</summary>
     public const double PumpBurstS = 30.0;
-    const double SpeedStep = 0.5;
     const double MaxSpeed = 30.0;
 
     public BoardPhysics Board { get; }
     readonly double _burstPower;
+    readonly PlaningBranches _branches;
 
     public VelocityPrediction(BoardPhysics board)
     {
         Board = board;
         _burstPower = board.Rider.PowerFor(PumpBurstS);
+        _branches = new PlaningBranches((tws, twa, v) => Board.NetForce(Board.WindAtRig(tws), twa, v, out _), PumpThrust,
+            board.Hull.SpeedAtFroude(Hull.HullModel.DropOffFroude), MaxSpeed);
     }
 
     /// <summary>Pumping thrust available at speed V during a burst, N.</summary>
@@ -46,8 +56,8 @@ public sealed class VelocityPrediction
 
     /// <summary>
     /// Wind at which the rider can get planing at some reaching angle with pumping (cached). Above it a rider sailing at any
-    /// angle where a planing equilibrium exists is taken to be planing there: riders get going on a reach and then bear
-    /// away or head up, so the planing branch is the one sailed.
+    /// angle where a planing equilibrium exists can be planing there: riders get going on a reach and then bear away or
+    /// head up (the sustained speed then weighs in how often a lull drops them off).
     /// </summary>
     public double? PlaningThresholdWithPumping
     {
@@ -65,53 +75,20 @@ public sealed class VelocityPrediction
         // Port and starboard are mirror images: the physics sees only the angle off the wind, 0..pi.
         twaRad = Math.Abs(Math.IEEERemainder(twaRad, 2 * Math.PI));
         double w = Board.WindAtRig(twsMs);
-        // No board sails much faster than about twice the true wind: scanning beyond 2.2 TWS + 5 m/s finds no equilibrium.
-        int n = (int)(Math.Min(MaxSpeed, 2.2 * twsMs + 5.0) / SpeedStep);
-        Span<double> v = stackalloc double[n + 1];
-        Span<double> f = stackalloc double[n + 1];
-        for (int i = 0; i <= n; i++)
+        bool canGet = useThreshold && PlaningThresholdWithPumping is double t && t <= twsMs;
+        var br = _branches.At(twsMs, twaRad, canGet, useThreshold ? double.NaN : double.PositiveInfinity);
+        double drop = br.DropOffWindMs;
+        SteadyState State(double v, bool planing)
         {
-            v[i] = Math.Max(i * SpeedStep, 0.05);
-            f[i] = Board.NetForce(w, twaRad, v[i], out _);
+            Board.NetForce(w, twaRad, v, out var trim);
+            return new SteadyState(v, trim, Board.Hull.LiftFraction(v), planing);
         }
-        SteadyState? disp = null, plan = null;
-        double? planRoot = null, dispRoot = null;
-        for (int i = 0; i < n; i++)
-        {
-            if (f[i] > 0 && f[i + 1] <= 0)
-            {
-                double root = RefineRoot(w, twaRad, v[i], v[i + 1]);
-                double phi = Board.Hull.LiftFraction(root);
-                Board.NetForce(w, twaRad, root, out var trim);
-                var st = new SteadyState(root, trim, phi);
-                if (st.Planing) { plan = st; planRoot = root; } // the fastest stable planing root
-                else if (disp is null) { disp = st; dispRoot = root; }
-            }
-        }
-        if (disp is null && plan is null)
-        {
-            // No drive at all (head to wind, or no wind): the board stops.
-            Board.NetForce(w, twaRad, 0.05, out var trim0);
-            var st = new SteadyState(0, trim0, 0);
-            return new PointSolution(twsMs, twaRad, st, null, st, false, false);
-        }
-        bool withoutPump = plan is not null && disp is null;
-        bool withPump = withoutPump;
-        if (plan is not null && disp is not null)
-        {
-            withPump = true;
-            for (int i = 0; i <= n && v[i] < planRoot!.Value; i++)
-                if (v[i] >= dispRoot!.Value && f[i] + PumpThrust(v[i]) <= 0) { withPump = false; break; }
-        }
-        bool onPlane = plan is not null && (withPump || (useThreshold && PlaningThresholdWithPumping is double t && t <= twsMs));
-        var sailed = onPlane ? plan!.Value : (disp ?? plan!.Value);
-        return new PointSolution(twsMs, twaRad, disp, plan, sailed, withoutPump, withPump);
-    }
-
-    double RefineRoot(double w, double twa, double a, double b)
-    {
-        double F(double s) => Board.NetForce(w, twa, s, out _);
-        return Brent.TryFindRoot(F, a, b, 1e-4, 60, out double root) ? root : 0.5 * (a + b);
+        SteadyState? disp = br.Displacement is double d ? State(d, false) : null;
+        SteadyState? plan = br.Planing is double p ? State(p, true) : null;
+        var sailed = State(br.Sustained, br.PlaningShare >= 0.5 && plan is not null);
+        if (disp is null && plan is null) sailed = State(0, false) with { Speed = 0 };
+        return new PointSolution(twsMs, twaRad, disp, plan, sailed, br.PlanesWithoutPumping, br.PlanesWithPumping,
+            br.GetPlaning, br.PlaningShare, drop);
     }
 
     /// <summary>Steady speed of the sailed equilibrium, m/s.</summary>
@@ -141,7 +118,9 @@ public sealed class VelocityPrediction
         try
         {
             var r = GoldenSectionMinimizer.Minimum(ObjectiveFunction.ScalarValue(x => -Vmg(x)), a, b, 1e-3, 200);
-            if (-r.FunctionInfoAtMinimum.Value > bestV) { bestX = r.MinimizingPoint; bestV = -r.FunctionInfoAtMinimum.Value; }
+            // The minimiser may step outside its bracket: keep the angle within lo..hi and its value consistent.
+            double x = Math.Clamp(r.MinimizingPoint, lo, hi), val = Vmg(x);
+            if (val > bestV) { bestX = x; bestV = val; }
         }
         catch (MathNet.Numerics.Optimization.OptimizationException) { /* keep the scan's best */ }
         return (bestX, bestV, SpeedAt(twsMs, bestX));

@@ -16,9 +16,11 @@ public readonly record struct HullState(double Resistance, double LiftFraction, 
 
 /// <summary>
 /// Hull resistance across the displacement, transition and planing regimes (docs/physics.md, "Hull"). The share of weight
-/// carried by dynamic lift rises with the volume Froude number FnV = V / sqrt(g vol^(1/3)) from 1 to 3 (planing
-/// hulls beat displacement forms above FnV 1 and are fully planing near FnV 3: Radojcic et al. 2014, Polish Maritime
-/// Research 21(2)). The displaced part pays skin friction on the resting wetted area (ITTC 1957 line) plus wave-making that
+/// carried by dynamic lift rises with the volume Froude number FnV = V / sqrt(g vol^(1/3)) from 1 to 3.5 along a
+/// smootherstep (zero slope and curvature at both ends, so the blend adds no kinks that make spurious equilibria):
+/// planing hulls beat displacement forms above FnV 1 and are fully planing near FnV 3 to 3.5 (Radojcic et al. 2014,
+/// Polish Maritime Research 21(2)). The planing state has hysteresis: a board gets planing at FnV
+/// <see cref="PlaningFroude"/> and stays planing down to <see cref="DropOffFroude"/>. The displaced part pays skin friction on the resting wetted area (ITTC 1957 line) plus wave-making that
 /// rises as FnV^4 (a model term sized so the hump drag is about an eighth of the weight, from memory for planing boards);
 /// the lifted part pays Savitsky's planing drag at the trim that minimises it (the rider moves to trim the board), on a
 /// planing beam of 0.6 of the board's width (the narrower tail carries the board when planing; from memory).
@@ -27,7 +29,14 @@ public readonly record struct HullState(double Resistance, double LiftFraction, 
 public sealed class HullModel
 {
     public const double PlaningBeamFraction = 0.6;
-    public const double WaveCoefficient = 0.008;
+    /// <summary>Lift starts at this volume Froude number and carries the whole weight at <see cref="FullLiftFroude"/>.</summary>
+    public const double LiftStartFroude = 1.0, FullLiftFroude = 3.5;
+    /// <summary>Volume Froude number from which a board is planing when getting going (Radojcic et al. 2014: full planing near 3).</summary>
+    public const double PlaningFroude = 3.0;
+    /// <summary>Volume Froude number below which a planing board drops off the plane (model value: the far side of the
+    /// resistance hump, where the lift still carries about two thirds of the weight).</summary>
+    public const double DropOffFroude = 2.4;
+    public const double WaveCoefficient = 0.005;
     public const double FormFactor = 1.1;
     const double TableStep = 0.05;
     const double TableMax = 40.0;
@@ -42,9 +51,13 @@ public sealed class HullModel
     // Resistance and lift fraction only, in single precision: the race step's compact copy (stays in cache).
     readonly float[] _fast;
 
-    public HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity = 9.80665)
+    /// <summary>Drag area (m2, on the water's dynamic pressure) of spray and chop added to the planing hull's flat-water drag.</summary>
+    public double ChopDragAreaM2 { get; }
+
+    public HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity = 9.80665, double chopDragAreaM2 = 0)
     {
         Spec = spec;
+        ChopDragAreaM2 = chopDragAreaM2;
         _rho = density; _nu = kinematicViscosity; _g = gravity;
         WeightN = totalMassKg * gravity;
         DisplacementM3 = totalMassKg / density;
@@ -61,14 +74,21 @@ public sealed class HullModel
     /// <summary>Volume Froude number at speed V (m/s).</summary>
     public double VolumeFroude(double speed) => speed / Math.Sqrt(_g * Math.Cbrt(DisplacementM3));
 
-    static double SmoothStep(double x)
+    static double SmootherStep(double x)
     {
         x = Math.Clamp(x, 0, 1);
-        return x * x * (3 - 2 * x);
+        return x * x * x * (x * (6 * x - 15) + 10);
     }
 
     /// <summary>Share of the weight carried by dynamic lift at speed V.</summary>
-    public double LiftFraction(double speed) => SmoothStep((VolumeFroude(speed) - 1.0) / 2.0);
+    public double LiftFraction(double speed) => SmootherStep((VolumeFroude(speed) - LiftStartFroude) / (FullLiftFroude - LiftStartFroude));
+
+    /// <summary>Planing state with hysteresis: getting going, planing from <see cref="PlaningFroude"/>; once planing,
+    /// still planing down to <see cref="DropOffFroude"/>.</summary>
+    public bool IsPlaning(double speed, bool wasPlaning) => VolumeFroude(speed) >= (wasPlaning ? DropOffFroude : PlaningFroude);
+
+    /// <summary>Speed (m/s) at volume Froude number <paramref name="fnv"/>.</summary>
+    public double SpeedAtFroude(double fnv) => fnv * Math.Sqrt(_g * Math.Cbrt(DisplacementM3));
 
     /// <summary>Savitsky's planing drag at the best trim (2..10 deg) for the full weight, and that trim.</summary>
     public PlaningState BestPlaning(double speed)
@@ -92,7 +112,7 @@ public sealed class HullModel
         double displaced = friction + wave;
         if (phi <= 0) return new HullState(displaced, 0, 0, Spec.LengthM);
         var p = BestPlaning(Math.Max(v, 0.5));
-        double planing = p.Drag;
+        double planing = p.Drag + 0.5 * _rho * v * v * ChopDragAreaM2;
         double res = (1 - phi) * displaced + phi * planing;
         return new HullState(res, phi, p.TrimDeg, Math.Min(p.Lambda * PlaningBeamM, Spec.LengthM));
     }

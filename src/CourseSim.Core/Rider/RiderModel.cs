@@ -27,6 +27,22 @@ public sealed record RiderSpec
 /// </summary>
 public sealed class RiderModel
 {
+    /// <summary>Boom height above the mast foot, m (from memory: the boom is set near shoulder height, 1.4-1.6 m above the
+    /// deck for an adult rider, whatever the sail size).</summary>
+    public const double BoomHeightM = 1.5;
+    /// <summary>Share of the boom force the harness lines carry when hooked in, the arms carrying the rest (from memory:
+    /// riders hold most of the pull in the harness; 0.75 is a model value).</summary>
+    public const double HarnessShare = 0.75;
+    /// <summary>Rake of the rig to windward when planing in the harness, deg (from memory: 10-20 deg; used for the
+    /// vertical sail force reported in the loads).</summary>
+    public const double WindwardRakeDeg = 15;
+    /// <summary>Mean pull on the boom a rider can put into a pumping stroke, N per kg of rider mass: the harness-line load
+    /// riders hold (Walls and Gale 2001, J Sci Med Sport 4(3):348-356: 4.9 N/kg) over the harness share.</summary>
+    public const double PumpPullPerKg = 4.9 / HarnessShare;
+    /// <summary>Share of a stroke's boom pull that ends up as forward thrust on average over the stroke cycle (model value:
+    /// the pull is across the board, the sail turns only part of it forward, and half the cycle is the recovery).</summary>
+    public const double PumpThrustShare = 0.15;
+
     public RiderSpec Spec { get; }
     public double MaxHeelingMomentNm { get; }
     public double ReserveJ { get; }
@@ -38,8 +54,12 @@ public sealed class RiderModel
         ReserveJ = spec.ReserveKj * 1000.0;
     }
 
-    /// <summary>Pumping thrust (N) at board speed V for rider power P (W): eta P / V, with V held at 1 m/s or more.</summary>
-    public double PumpThrust(double powerW, double speed) => Spec.PumpEfficiency * powerW / Math.Max(speed, 1.0);
+    /// <summary>Largest mean pumping thrust a rider of this mass can make, N: <see cref="PumpThrustShare"/> of the boom pull
+    /// <see cref="PumpPullPerKg"/> x mass. At low speed this, not power / speed, bounds the thrust.</summary>
+    public double MaxPumpThrustN => PumpThrustShare * PumpPullPerKg * Spec.MassKg;
+
+    /// <summary>Pumping thrust (N) at board speed V for rider power P (W): eta P / V, bounded by <see cref="MaxPumpThrustN"/>.</summary>
+    public double PumpThrust(double powerW, double speed) => Math.Min(Spec.PumpEfficiency * powerW / Math.Max(speed, 0.1), MaxPumpThrustN);
 
     /// <summary>Power the rider can hold for <paramref name="durationS"/> seconds from a full reserve: CP + W'/t.</summary>
     public double PowerFor(double durationS) => Spec.CriticalPowerW + ReserveJ / Math.Max(durationS, 1.0);

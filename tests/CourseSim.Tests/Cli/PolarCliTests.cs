@@ -53,7 +53,7 @@ public class PolarCliTests
     public void ComparisonFindsCrossoverAndWritesChart()
     {
         string dir = TempDir();
-        var (code, stdout, _) = Run("polar", Equip("light-66.toml"), Equip("light-78.toml"), "--wind", "6:24:2", "--angles", "40:180:10", "--format", "json", "--out", dir);
+        var (code, stdout, _) = Run("polar", Equip("light-66.toml"), Equip("light-78.toml"), "--wind", "6:24:2", "--angles", "30:180:5", "--format", "json", "--out", dir);
         Assert.Equal(0, code);
         using var doc = JsonDocument.Parse(stdout);
         Assert.True(doc.RootElement.GetProperty("crossovers").GetArrayLength() >= 1);

@@ -52,7 +52,7 @@ public class HullModelTests
     public void ResistanceHasAHumpBeforePlaning()
     {
         var h = new HullModel(new BoardSpec(), 92, 1025, 1.19e-6);
-        double vFull = 3.0 * Math.Sqrt(9.80665 * Math.Cbrt(h.DisplacementM3));
+        double vFull = HullModel.FullLiftFroude * Math.Sqrt(9.80665 * Math.Cbrt(h.DisplacementM3));
         double peakV = 0, peak = 0;
         for (double v = 0.5; v <= vFull; v += 0.05) { double r = h.At(v).Resistance; if (r > peak) { peak = r; peakV = v; } }
         Assert.InRange(h.VolumeFroude(peakV), 1.5, 2.9);
