@@ -38,7 +38,7 @@ public sealed class DecideSystem : RaceSystem
 
     public override string Name => "decide";
     public override SystemScope Scope => SystemScope.OwnBoard;
-    public override string Reads => "Pose, Motion, SensedWind, Perception, RaceStatus, ManoeuvreState, Penalty, GiveWay; snapshot (boards in sight); grid (nearest)";
+    public override string Reads => "Pose, Motion, SensedWind, Trim (planing), Perception, RaceStatus, ManoeuvreState, Penalty, GiveWay; snapshot (boards in sight); grid (nearest)";
     public override string Writes => "Helm, Intent, StartPlan, Perception.LastTurnS, Penalty (serving), events";
 
     public override void RunBoards(RaceContext c, ref BoardBlock blk)
@@ -117,6 +117,7 @@ public sealed class DecideSystem : RaceSystem
                 power = double.IsFinite(d.Power) ? Math.Clamp(d.Power, 0, 1) : 1;
                 if (!double.IsFinite(heading)) heading = pose.Heading;
                 heading = Navigation.MarkSideGuard(c.Course, rig, st.NextStep, p, heading, tws, from, tack);
+                heading = Navigation.PlaningGuard(rig, heading, tws, from, blk.Trim[i].Planing);
                 break;
             }
         }

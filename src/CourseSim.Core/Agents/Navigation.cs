@@ -124,6 +124,30 @@ public static class Navigation
         // Beating only: running, the rider already steers straight at the aim point within CloseRunM of it.
         return twa < Unit.DegToRad(75) ? Sailing.CloseHauledOtherTack(rig, fromDeg, side, tws) : heading;
     }
+
+    /// <summary>The sustained polar must beat what the board makes off the plane at the wanted angle by this share before
+    /// a rider off the plane detours to get planing (model value: a detour for a few per cent is not worth it).</summary>
+    public const double PlaningDetourGain = 1.15;
+
+    /// <summary>
+    /// Getting planing (docs/tactics.md, "Getting planing"): a rider off the plane whose wanted angle only pays when
+    /// planing, and who cannot get planing at that angle, heads to the nearest angle on the same tack or gybe at which
+    /// the board does get planing (downwind: heads up; upwind: bears away) and returns to the wanted angle once
+    /// planing (common practice: head up to get going, bear away once planing, head up again when the board drops).
+    /// </summary>
+    public static double PlaningGuard(RigPolar rig, double heading, double tws, double fromDeg, bool planing)
+    {
+        if (planing) return heading;
+        double twa = Sailing.SignedAngle(fromDeg, heading), a = Math.Abs(twa);
+        int side = twa >= 0 ? 1 : -1;
+        double sustained = rig.Speed(tws, a), getting = rig.GetPlaningSpeed(tws, a);
+        if (sustained < PlaningDetourGain * getting) return heading;
+        bool downwind = a > Math.PI / 2;
+        double g = rig.GetPlaningTwa(tws, !downwind);
+        if (double.IsNaN(g)) return heading;
+        double to = downwind ? Math.Min(a, g) : Math.Max(a, g);
+        return Unit.WrapRadPi(Unit.DegToRad(fromDeg) - side * to);
+    }
 }
 
 /// <summary>The engine's navigation for tactics, set up for one board's decision (the arithmetic of <see cref="Navigation"/>).</summary>

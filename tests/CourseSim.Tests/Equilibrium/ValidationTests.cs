@@ -213,7 +213,7 @@ public class ValidationTests
     [InlineData("heavy-86")]
     public void TimeToReplaneIsSecondsInPlaningWinds(string rig)
     {
-        var polar = RigPolar.For(Load(rig));
+        var polar = RigPolar.Build(Load(rig));
         double t14 = polar.Rig.TimeToPlane(Ms(14), Unit.DegToRad(100), Ms(4), pumping: true);
         Assert.InRange(t14, 0.5, 12.2 + 2 * 1.3);
         double t18 = polar.Rig.TimeToPlane(Ms(18), Unit.DegToRad(100), Ms(4), pumping: false);
@@ -229,7 +229,7 @@ public class ValidationTests
     [InlineData("heavy-86")]
     public void RigPolarFollowsTheVelocityPrediction(string rig)
     {
-        var polar = RigPolar.For(Load(rig));
+        var polar = RigPolar.Build(Load(rig));
         var vpp = Vpp(rig);
         foreach (double kn in new[] { 16.0, 20 })
             foreach (double twa in new[] { 90.0, 110, 130 })

@@ -30,7 +30,9 @@ public sealed class ForcesSystem : RaceSystem
             double hullDrag = hull.ResistanceAt(v, out double lift);
             if (man.Kind == Manoeuvre.Tack && man.Phase == 1) { hullDrag = Math.Max(hullDrag, hull.UnplanedResistance(v)); lift = 0; }
             t.FinDrag = finDrag; t.HullDrag = hullDrag;
-            t.Planing = lift >= 0.5;
+            // Planing with hysteresis (docs/physics.md): on the plane from the planing Froude number, off it below the
+            // drop-off one; stepping round the mast in a tack takes the board off the plane.
+            t.Planing = lift > 0 && hull.IsPlaning(v, t.Planing);
             mo.Leeway = leeway;
             var rm = rig.Rider;
             // Out of breath at the floor, the rider rests until the reserve is back to RestUntil (hysteresis).
