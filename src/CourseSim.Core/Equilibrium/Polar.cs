@@ -89,6 +89,9 @@ public sealed record PolarComparison(Polar A, Polar B, IReadOnlyList<ComparisonR
         Find("top speed", r => r.TopSpeedA - r.TopSpeedB);
         Find("upwind VMG", r => r.UpVmgA - r.UpVmgB);
         Find("downwind VMG", r => r.DownVmgA - r.DownVmgB);
+        // A windward-leeward lap (one beat and one run of equal length) at the best VMGs: what decides a course race, so
+        // the measure to hold against a paired batch's crossover. In per cent of A's lap time (positive: A's lap is shorter).
+        Find("windward-leeward lap", r => 100 * ((1 / r.UpVmgB + 1 / r.DownVmgB) / (1 / r.UpVmgA + 1 / r.DownVmgA) - 1));
         return new PolarComparison(a, b, rows, cross);
 
         // A sign change of (A - B) between two listed wind speeds, located by linear interpolation. Differences under
