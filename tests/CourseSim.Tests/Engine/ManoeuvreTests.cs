@@ -11,7 +11,7 @@ namespace CourseSim.Tests.Engine;
 /// and must be pumped back up to speed); a planing carve gybe costs about 0.5 to 5 s of downwind VMG and the board keeps
 /// moving through it (common practice: a carve gybe is made without stopping).
 /// </summary>
-public class ManoeuvreTests
+public class ManoeuvreTests(Xunit.Abstractions.ITestOutputHelper output)
 {
     /// <summary>Length of the measuring window, s: the manoeuvre starts at 15 s and the board is back to speed well before the end.</summary>
     const double EndS = 75;
@@ -64,7 +64,8 @@ public class ManoeuvreTests
     [InlineData("heavy-86.toml", 12, 1.0)]
     public void ATackCostsSecondsOfUpwindVmgInTheTradesRange(string equipment, double kn, double floorS)
     {
-        var (loss, _, tacks, gybes) = Loss(equipment, kn, upwind: true);
+        var (loss, minShare, tacks, gybes) = Loss(equipment, kn, upwind: true);
+        output.WriteLine($"{equipment} {kn} kn tack: {loss:F2} s of VMG, least speed {minShare:P0} of the entry speed");
         Assert.Equal(1, tacks);
         Assert.Equal(0, gybes);
         Assert.InRange(loss, floorS, 12);
@@ -76,6 +77,7 @@ public class ManoeuvreTests
     public void APlaningGybeCostsSecondsAndKeepsTheBoardMoving(string equipment, double kn)
     {
         var (loss, minShare, tacks, gybes) = Loss(equipment, kn, upwind: false);
+        output.WriteLine($"{equipment} {kn} kn gybe: {loss:F2} s of VMG, least speed {minShare:P0} of the entry speed");
         Assert.Equal(0, tacks);
         Assert.Equal(1, gybes);
         Assert.InRange(loss, 0.5, 5);
