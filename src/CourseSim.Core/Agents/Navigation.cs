@@ -130,7 +130,7 @@ public static class Navigation
     public const double PlaningDetourGain = 1.15;
 
     /// <summary>
-    /// Getting planing (docs/tactics.md, "Getting planing"): a rider off the plane whose wanted angle only pays when
+    /// Getting planing (docs/engine.md, "Getting planing"): a rider off the plane whose wanted angle only pays when
     /// planing, and who cannot get planing at that angle, heads to the nearest angle on the same tack or gybe at which
     /// the board does get planing (downwind: heads up; upwind: bears away) and returns to the wanted angle once
     /// planing (common practice: head up to get going, bear away once planing, head up again when the board drops).
