@@ -41,7 +41,8 @@ public sealed class WindField
         _u0 = Unit.KnotsToMs(s.SpeedKn);
         _ramp = Unit.KnotsToMs(s.RampKnPerHour) / 3600.0;
         _dirRad = Unit.DegToRad(s.DirectionDeg);
-        // Downwind unit vector (where the wind blows to) and the unit vector to its right (looking downwind).
+        // Downwind unit vector (where the wind blows to) and the unit vector to the right of the course looking upwind
+        // (to the left looking downwind): wind from 0 (north) gives n = east.
         _ex = -Math.Sin(_dirRad); _ey = -Math.Cos(_dirRad);
         _nx = -_ey; _ny = _ex;
         _ca = Math.Cos(TileRotation); _sa = Math.Sin(TileRotation);
@@ -118,13 +119,13 @@ public sealed class WindField
     {
         var s = Settings;
         double along = x * _ex + y * _ey;      // downwind distance
-        double cross = x * _nx + y * _ny;      // to the right looking downwind
+        double cross = x * _nx + y * _ny;      // to the right looking upwind (docs/scenario.md: bend and pressure)
         // Patterns travel downwind at the starting mean speed: a point 'along' metres downwind sees at t what the origin saw at t - along/U.
         double adv = _u0 > 0.1 ? _u0 : 0.1;
         double tau = t - along * (adv == _u0 ? _invU0 : 1 / adv);
         double dir = s.DirectionDeg + TabulatedShift(tau) + s.PersistentDegPerMin * tau * (1 / 60.0)
-                     + s.BendDeg * Math.Clamp(-cross * (1 / BendWidthM), -0.5, 0.5);
-        double u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (-cross * 0.001);
+                     + s.BendDeg * Math.Clamp(cross * (1 / BendWidthM), -0.5, 0.5);
+        double u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (cross * 0.001);
         if (s.BandAmplitudeKn != 0) u += Unit.KnotsToMs(s.BandAmplitudeKn) * Math.Sin(2 * Math.PI * (along - adv * t) / s.BandSpacingM);
         u = Math.Max(u, 0);
         if (_gu is not null)

@@ -48,6 +48,29 @@ public class WindFieldTests
         Assert.Equal(0.12, sd / mean, 0.12 * 0.15);
     }
 
+    // docs/scenario.md (the contract) and the keys' help: pressure_kn_per_km is extra speed towards the right of the
+    // course looking upwind, per km across; bend_deg is the direction on the right (looking upwind) minus the left over
+    // 1 km across. Read on each side, 300 m from the axis, for winds from several directions; the right is found here
+    // from the compass (looking upwind towards D, the right hand points to D + 90), not from the field's own vectors.
+    [Theory]
+    [InlineData(0.0)]
+    [InlineData(90.0)]
+    [InlineData(225.0)]
+    [InlineData(300.0)]
+    public void PressureAndBendActOnTheDocumentedSide(double fromDeg)
+    {
+        var f = new WindField(new WindSettings { SpeedKn = 12, DirectionDeg = fromDeg, ShiftAmplitudeDeg = 0, ShiftIrregularity = 0,
+            PersistentDegPerMin = 0, GustIntensity = 0, PressureKnPerKm = 6, BendDeg = 20 }, 3);
+        double right = Unit.DegToRad(fromDeg + 90);
+        double x = 300 * Math.Sin(right), y = 300 * Math.Cos(right);   // x east, y north
+        var r = f.Sample(x, y, 0); var l = f.Sample(-x, -y, 0);
+        Assert.Equal(6 * 0.6, r.SpeedKn - l.SpeedKn, 1e-6);            // more wind on the right: +6 kn/km over 0.6 km
+        Assert.Equal(20 * 0.6, Unit.WrapDeg180(r.FromDeg - l.FromDeg), 1e-6); // right minus left = +bend per km
+        // The demo's sign: korrin-bay.toml says "a little more pressure on the right of the course" with +1.0 kn/km.
+        var demo = new WindField(new WindSettings { DirectionDeg = fromDeg, ShiftAmplitudeDeg = 0, GustIntensity = 0, PressureKnPerKm = 1.0 }, 3);
+        Assert.True(demo.Sample(x, y, 0).SpeedKn > demo.Sample(-x, -y, 0).SpeedKn);
+    }
+
     // The gust tile's correlation along a line is the von Karman function for the integral scale L:
     // rho(0.5 L) 0.5445, rho(L) 0.3470, rho(2 L) 0.1504 (computed from 2^(2/3)/Gamma(1/3) x^(1/3) K_1/3(x);
     // von Karman 1948, Proc. Natl Acad. Sci. 34; IEC 61400-1 ed. 3, annex B; shared/REFERENCES.md). Tolerance 0.06 for sampling.
