@@ -268,6 +268,30 @@ public class WindCliTests
         Assert.Equal(stdout, again);
     }
 
+    // `coursesim wind SCENARIO` without --seed shows the wind of the scenario's races: race.seed (docs/wind.md), the seed
+    // RaceContext gives the race's WindField; --seed overrides it.
+    [Fact]
+    public void WithoutSeedTheScenarioRaceSeedIsUsed()
+    {
+        string dir = Directory.CreateTempSubdirectory("cs-wind-").FullName;
+        string f = Path.Combine(dir, "seeded.toml");
+        File.WriteAllText(f, "name = \"seeded\"\n[wind]\nspeed_kn = 12\ngust_intensity = 0.15\n[race]\nseed = 7\n");
+        string[] common = ["--format", "json", "--out", dir, "--duration", "600"];
+        var (code, byScenario, _) = Run(["wind", f, .. common]);
+        Assert.Equal(0, code);
+        var (_, seven, _) = Run(["wind", f, "--seed", "7", .. common]);
+        var (_, one, _) = Run(["wind", f, "--seed", "1", .. common]);
+        Assert.Equal(7UL, JsonDocument.Parse(byScenario).RootElement.GetProperty("seed").GetUInt64());
+        Assert.Equal(seven, byScenario);
+        Assert.NotEqual(JsonDocument.Parse(one).RootElement.GetProperty("speed_mean_kn").GetDouble(),
+            JsonDocument.Parse(byScenario).RootElement.GetProperty("speed_mean_kn").GetDouble());
+        // And it is the race's own field: the summary equals one made from WindField(settings, 7).
+        var field = new WindField(WindFile.From(CourseSim.Simulation.ScenarioFile.Load(f, [])), 7);
+        var (_, sp, d) = WindStatistics.Series(field, 0, 0, 600);
+        Assert.Equal(WindStatistics.Summarise(sp, d, 1.0).SpeedMeanKn,
+            JsonDocument.Parse(byScenario).RootElement.GetProperty("speed_mean_kn").GetDouble(), 2); // JSON rounds to 3 decimals
+    }
+
     [Fact]
     public void BadValueNamesFileLineKeyRange()
     {
