@@ -112,8 +112,8 @@ public class EquilibriumBenchmarks
 }
 
 /// <summary>
-/// Wind sampling cost on one core: nanoseconds per sample without and with the shadows of a 40-board fleet, and the
-/// memory of the field (the gust tiles; the same for a 3 km course over an hour, since the tile is periodic and frozen).
+/// Wind sampling cost on one core: nanoseconds per sample without and with the shadows of a 40-board fleet, the time to
+/// build a field (every race of a batch builds its own), and the memory of the field (the gust tiles; the same for a 3 km course over an hour, since the tile is periodic and frozen).
 /// </summary>
 [MemoryDiagnoser]
 public class WindBenchmarks
@@ -146,6 +146,9 @@ public class WindBenchmarks
         for (int i = 0; i < N; i++) s += _field.Sample(_x[i], _y[i], i * 0.05).SpeedMs;
         return s;
     }
+
+    [Benchmark(Description = "wind field build: shift table and gust tiles (once per race)")]
+    public long Build() => new CourseSim.Wind.WindField(new CourseSim.Wind.WindSettings(), 7).MemoryBytes;
 
     [Benchmark(OperationsPerInvoke = N, Description = "wind sample with 40-board shadows (ns/sample)")]
     public double SampleWithShadows()

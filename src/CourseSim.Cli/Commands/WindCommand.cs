@@ -13,7 +13,7 @@ public static class WindCommand
     public static Command Build(TextWriter stdout, TextWriter stderr)
     {
         var file = new Argument<string>("scenario") { Description = "scenario file (TOML) with a [wind] table" };
-        var seed = new Option<ulong>("--seed") { Description = "random seed of the wind field", DefaultValueFactory = _ => 1 };
+        var seed = new Option<ulong?>("--seed") { Description = "random seed of the wind field (default: race.seed in the scenario, the wind its races sail)" };
         var at = new Option<string>("--at") { Description = "point for statistics and the time series, x,y metres east,north of the origin", DefaultValueFactory = _ => "0,0" };
         var duration = new Option<double>("--duration") { Description = "length of the time series, s", DefaultValueFactory = _ => 3600 };
         var set = new Option<string[]>("--set") { Description = "override a key, table.key=value (repeatable)" };
@@ -26,7 +26,7 @@ public static class WindCommand
         return cmd;
     }
 
-    static int Run(string path, ulong seed, string atText, double duration, string[] sets, string? outDir, string format, TextWriter stdout)
+    static int Run(string path, ulong? seedOption, string atText, double duration, string[] sets, string? outDir, string format, TextWriter stdout)
     {
         var parts = atText.Split(',');
         if (parts.Length != 2 || !double.TryParse(parts[0], NumberStyles.Float, CultureInfo.InvariantCulture, out double x)
@@ -35,6 +35,9 @@ public static class WindCommand
         if (!(duration >= 60 && duration <= 86400)) throw new UsageException($"--duration: {duration} is out of range (accepted 60 to 86400 s)");
         var f = ScenarioFile.Load(path, sets);
         var settings = WindFile.From(f);
+        // The race's wind field is WindField(settings, race seed) (RaceContext), so without --seed this is the wind the
+        // scenario's races sail.
+        ulong seed = seedOption ?? (ulong)f.Number("race.seed");
         string name = f.Text("name") is { Length: > 0 } n ? n : Path.GetFileNameWithoutExtension(path);
         var field = new WindField(settings, seed);
         var (t, sp, dir) = WindStatistics.Series(field, x, y, duration);

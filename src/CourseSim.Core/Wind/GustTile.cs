@@ -1,16 +1,25 @@
 using System.Numerics;
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using CourseSim.Random;
 using MathNet.Numerics.IntegralTransforms;
 
 namespace CourseSim.Wind;
 
 /// <summary>
-/// A periodic square tile of a unit-variance Gaussian field with the von Karman spectrum, made once by an inverse FFT
-/// and sampled by bilinear interpolation. The 2-D spectral density is proportional to (1 + k^2 l^2)^(-4/3): a Matern field of
-/// smoothness 1/3, whose correlation along any line is the von Karman function
+/// A periodic square tile holding one wavenumber band of a unit-variance Gaussian field with the von Karman spectrum,
+/// made once by an inverse FFT and sampled by bilinear interpolation. The 2-D spectral density is proportional to
+/// (1 + k^2 l^2)^(-4/3): a Matern field of smoothness 1/3, whose correlation along any line is the von Karman function
 /// rho(r) = 2^(2/3)/Gamma(1/3) (r/l)^(1/3) K_1/3(r/l) and whose 1-D spectrum is the IEC 61400-1 von Karman form
 /// S(f) = 4 sigma^2 (L/U) / (1 + 70.8 (f L/U)^2)^(5/6), slope -5/3 in the inertial range. The integral length scale is
 /// L = l sqrt(pi) Gamma(5/6)/Gamma(1/3) = 0.7468 l.
+/// <para>
+/// A tile holds the modes whose larger index |i| or |j| lies in (lo, hi]. With hi at half the grid's Nyquist index, bilinear
+/// interpolation passes the band with a known loss, sinc^2(pi i/N) sinc^2(pi j/N) in amplitude, which the synthesis divides
+/// out (a spectral correction), and its images beyond the band stay near 1.5% of the band's power. <see cref="WindField"/>
+/// adds a coarse tile (the large scales) and a fine one (the band above it) so the sum keeps the von Karman spectrum,
+/// variance and correlation down to a few metres (docs/wind.md).
+/// </para>
 /// </summary>
 public sealed class GustTile
 {
@@ -18,37 +27,56 @@ public sealed class GustTile
     public const double IntegralToScale = 0.746834;
     public int Size { get; }
     public double SpacingM { get; }
+    /// <summary>Share of the unit variance the tile's band holds (the integral of the spectrum over its modes).</summary>
+    public double Variance { get; }
     readonly float[] _v;
     readonly double _invSpacing;
 
-    public GustTile(double integralLengthM, CounterRng rng, int size = 512, int pointsPerScale = 8)
+    GustTile(float[] values, int size, double spacingM, double variance)
     {
-        Size = size;
-        double l = integralLengthM / IntegralToScale;
-        SpacingM = l / pointsPerScale;
-        _invSpacing = 1 / SpacingM;
-        var c = new Complex[size * size];
-        double dk = 2 * Math.PI / (size * SpacingM);
-        double resolved = 0;
-        for (int i = 0; i < size; i++)
+        _v = values; Size = size; SpacingM = spacingM; _invSpacing = 1 / spacingM; Variance = variance;
+    }
+
+    /// <summary>
+    /// One band of the field as two independent tiles from one inverse FFT: the real and imaginary parts of the transform
+    /// of complex white noise shaped by an even spectrum are independent fields with that spectrum. Both tiles have
+    /// <paramref name="pointsPerScale"/> grid points per l, so their spectra are the same in grid units and the second tile
+    /// is the same kind of field at the length scale <paramref name="secondLengthM"/> (the lateral component). Modes with
+    /// max(|i|, |j|) at most <paramref name="lo"/> are left to a coarser tile (0: only the mean is left out), those above
+    /// <paramref name="hi"/> (at most size/2) are left out. <paramref name="scratch"/>, if given, is the size x size work
+    /// array (a field's bands share one: 4 MiB less to allocate and collect per race).
+    /// </summary>
+    public static (GustTile First, GustTile Second) Band(double firstLengthM, double secondLengthM, CounterRng rng,
+        int size, int pointsPerScale, int lo, int hi, Complex[]? scratch = null)
+    {
+        if (size < 8 || (size & (size - 1)) != 0) throw new ArgumentException("tile size must be a power of two", nameof(size));
+        if (lo < 0 || hi <= lo || hi > size / 2) throw new ArgumentException($"band ({lo}, {hi}] outside 0..{size / 2}");
+        var c = scratch is { Length: var len } && len == size * size ? scratch : new Complex[size * size];
+        Array.Clear(c);
+        double dkl = 2 * Math.PI * pointsPerScale / size;     // grid wavenumber step times l
+        double held = 0, grid = 0;
+        var h = new double[hi + 1];                            // bilinear interpolation's amplitude response per index
+        for (int i = 0; i <= hi; i++) { double x = Math.PI * i / size; h[i] = i == 0 ? 1 : Math.Pow(Math.Sin(x) / x, 2); }
+        for (int fi = -hi; fi <= hi; fi++)
         {
-            int fi = i <= size / 2 ? i : i - size;
-            for (int j = 0; j < size; j++)
+            int i = fi < 0 ? fi + size : fi;
+            for (int fj = -hi; fj <= hi; fj++)
             {
-                int fj = j <= size / 2 ? j : j - size;
-                double k2 = (fi * fi + fj * fj) * dk * dk;
-                double amp = (fi == 0 && fj == 0) ? 0 : Math.Pow(1 + k2 * l * l, -4.0 / 6.0);
-                resolved += amp * amp * dk * dk;
-                ulong n = (ulong)(i * size + j);
-                // Real and imaginary parts from one Box-Muller pair (independent standard normals).
-                var (re, im) = rng.NormalPair(n);
+                if (Math.Max(Math.Abs(fi), Math.Abs(fj)) <= lo) continue;
+                int j = fj < 0 ? fj + size : fj;
+                double s = Math.Pow(1 + (fi * fi + fj * fj) * dkl * dkl, -4.0 / 3.0);
+                double amp = Math.Sqrt(s) / (h[Math.Abs(fi)] * h[Math.Abs(fj)]);
+                held += s; grid += amp * amp;
+                var (re, im) = rng.NormalPair((ulong)(i * size + j));
                 c[i * size + j] = new Complex(amp * re, amp * im);
             }
         }
-        // 2-D inverse FFT as rows then columns (MathNet's managed provider has no multi-dimensional transform).
+        // 2-D inverse FFT as rows then columns (MathNet's managed provider has no multi-dimensional transform); the rows
+        // beyond the band are zero and stay so.
         var line = new Complex[size];
-        for (int i = 0; i < size; i++)
+        for (int fi = -hi; fi <= hi; fi++)
         {
+            int i = fi < 0 ? fi + size : fi;
             Array.Copy(c, i * size, line, 0, size);
             Fourier.Inverse(line, FourierOptions.Matlab);
             Array.Copy(line, 0, c, i * size, size);
@@ -59,17 +87,25 @@ public sealed class GustTile
             Fourier.Inverse(line, FourierOptions.Matlab);
             for (int i = 0; i < size; i++) c[i * size + j] = line[i];
         }
-        _v = new float[size * size];
+        // The spectrum integrates to 3 pi / l^2 over the plane: the band holds held (dk l)^2 / (3 pi) of the unit variance.
+        // Each tile is scaled so that, after the interpolation's loss, its variance is the band's: the grid values carry
+        // grid / held times that (the correction above). Scaling by the realised standard deviation keeps every seed's
+        // tile at exactly its share.
+        double variance = held * dkl * dkl / (3 * Math.PI);
+        double gridVariance = variance * grid / held;
+        return (Make(c, size, firstLengthM, pointsPerScale, variance, gridVariance, imaginary: false),
+                Make(c, size, secondLengthM, pointsPerScale, variance, gridVariance, imaginary: true));
+    }
+
+    static GustTile Make(Complex[] c, int size, double integralLengthM, int pointsPerScale, double variance, double gridVariance, bool imaginary)
+    {
         double sum = 0, sum2 = 0;
-        for (int i = 0; i < c.Length; i++) { sum += c[i].Real; sum2 += c[i].Real * c[i].Real; }
-        double mean = sum / c.Length, sd = Math.Sqrt(sum2 / c.Length - mean * mean);
-        // The tile holds the resolved scales only. The spectrum integrates to 3 pi / l^2 over the plane; what lies beyond
-        // the grid's Nyquist wavenumber (about 12% of the variance at 8 points per scale: gusts shorter than a few seconds,
-        // which a sail averages out) is left out rather than folded into the resolved scales, so correlations at lags
-        // beyond the grid spacing keep the von Karman values.
-        ResolvedVariance = Math.Min(1.0, resolved * l * l / (3 * Math.PI));
-        double scale = Math.Sqrt(ResolvedVariance) / sd;
-        for (int i = 0; i < c.Length; i++) _v[i] = (float)((c[i].Real - mean) * scale);
+        for (int i = 0; i < c.Length; i++) { double v = imaginary ? c[i].Imaginary : c[i].Real; sum += v; sum2 += v * v; }
+        double mean = sum / c.Length, sd = Math.Sqrt(Math.Max(sum2 / c.Length - mean * mean, 1e-300));
+        double scale = Math.Sqrt(gridVariance) / sd;
+        var values = new float[c.Length];
+        for (int i = 0; i < c.Length; i++) values[i] = (float)(((imaginary ? c[i].Imaginary : c[i].Real) - mean) * scale);
+        return new GustTile(values, size, integralLengthM / IntegralToScale / pointsPerScale, variance);
     }
 
     /// <summary>Value at (a, b) metres in tile coordinates, periodic, bilinear.</summary>
@@ -81,12 +117,13 @@ public sealed class GustTile
         int n = Size, mask = n - 1;
         int i0 = (int)((long)fx & mask), j0 = (int)((long)fy & mask);
         int i1 = (i0 + 1) & mask, j1 = (j0 + 1) & mask;
-        double v00 = _v[i0 * n + j0], v01 = _v[i0 * n + j1], v10 = _v[i1 * n + j0], v11 = _v[i1 * n + j1];
+        // The masks keep every index inside the n x n array, so the reads skip the bounds checks (a quarter of a sample's
+        // cost with four tiles).
+        ref float v = ref MemoryMarshal.GetArrayDataReference(_v);
+        double v00 = Unsafe.Add(ref v, i0 * n + j0), v01 = Unsafe.Add(ref v, i0 * n + j1);
+        double v10 = Unsafe.Add(ref v, i1 * n + j0), v11 = Unsafe.Add(ref v, i1 * n + j1);
         return (v00 * (1 - ty) + v01 * ty) * (1 - tx) + (v10 * (1 - ty) + v11 * ty) * tx;
     }
-
-    /// <summary>Share of the unit variance the tile resolves (the rest lies below its grid spacing).</summary>
-    public double ResolvedVariance { get; }
 
     public long MemoryBytes => (long)_v.Length * sizeof(float);
 }

@@ -28,7 +28,12 @@ public sealed class WindField
     public ulong Seed { get; }
     readonly double _u0, _ramp, _dirRad, _ex, _ey, _nx, _ny, _ca, _sa;
     readonly double[] _shiftFreq, _shiftAmp, _shiftPhase;
-    readonly GustTile? _gu, _gv;
+    // Gust tiles: the coarse band (large scales) and the fine band above it, each longitudinal (u) and lateral (v).
+    readonly GustTile? _gu, _gv, _fu, _fv;
+    /// <summary>Coarse tile: 512 x 512 points, 8 per l (a 12.8 km period at the default 150 m), modes up to half its
+    /// Nyquist index; fine tile: 512 x 512 points, 64 per l (1.6 km), the modes from there to half its own Nyquist index,
+    /// 8 times higher. Together they hold the von Karman spectrum up to k l = 100 (about 12 m at the default length).</summary>
+    const int TileSize = 512, CoarsePoints = 8, FinePoints = 64, BandTop = TileSize / 4, FineFloor = BandTop * CoarsePoints / FinePoints;
     readonly double _sigmaU, _invU0;
     // The oscillating shift tabulated every 0.5 s over advected times -2 h .. +6 h (the sum of sines dominates a sample's
     // cost); outside the table it is computed directly. Linear interpolation error is below 0.01 deg for periods over 60 s.
@@ -41,7 +46,8 @@ public sealed class WindField
         _u0 = Unit.KnotsToMs(s.SpeedKn);
         _ramp = Unit.KnotsToMs(s.RampKnPerHour) / 3600.0;
         _dirRad = Unit.DegToRad(s.DirectionDeg);
-        // Downwind unit vector (where the wind blows to) and the unit vector to its right (looking downwind).
+        // Downwind unit vector (where the wind blows to) and the unit vector to the right of the course looking upwind
+        // (to the left looking downwind): wind from 0 (north) gives n = east.
         _ex = -Math.Sin(_dirRad); _ey = -Math.Cos(_dirRad);
         _nx = -_ey; _ny = _ex;
         _ca = Math.Cos(TileRotation); _sa = Math.Sin(TileRotation);
@@ -61,9 +67,13 @@ public sealed class WindField
         FillShiftTable();
         if (s.GustIntensity > 0)
         {
-            _gu = new GustTile(s.GustLengthM, new CounterRng(seed, CounterRng.Streams.WindGustU));
-            // IEC 61400-1: lateral sigma 0.8 sigma_u, lateral length scale about a third of the longitudinal one.
-            _gv = new GustTile(s.GustLengthM / 3.0, new CounterRng(seed, CounterRng.Streams.WindGustV));
+            // IEC 61400-1: lateral sigma 0.8 sigma_u, lateral length scale about a third of the longitudinal one. One inverse
+            // FFT per band gives both components (GustTile.Band).
+            var scratch = new System.Numerics.Complex[TileSize * TileSize];
+            (_gu, _gv) = GustTile.Band(s.GustLengthM, s.GustLengthM / 3.0, new CounterRng(seed, CounterRng.Streams.WindGustU),
+                TileSize, CoarsePoints, 0, BandTop, scratch);
+            (_fu, _fv) = GustTile.Band(s.GustLengthM, s.GustLengthM / 3.0, new CounterRng(seed, CounterRng.Streams.WindGustV),
+                TileSize, FinePoints, FineFloor, BandTop, scratch);
         }
     }
 
@@ -111,28 +121,29 @@ public sealed class WindField
         return _shiftTable[i] + f * (_shiftTable[i + 1] - _shiftTable[i]);
     }
 
-    /// <summary>Gust tile memory, bytes (both components).</summary>
-    public long MemoryBytes => (_gu?.MemoryBytes ?? 0) + (_gv?.MemoryBytes ?? 0) + _shiftTable.Length * sizeof(float);
+    /// <summary>Gust tile memory, bytes (both bands, both components).</summary>
+    public long MemoryBytes => (_gu?.MemoryBytes ?? 0) + (_gv?.MemoryBytes ?? 0) + (_fu?.MemoryBytes ?? 0) + (_fv?.MemoryBytes ?? 0)
+                               + _shiftTable.Length * sizeof(float);
 
     public WindSample Sample(double x, double y, double t)
     {
         var s = Settings;
         double along = x * _ex + y * _ey;      // downwind distance
-        double cross = x * _nx + y * _ny;      // to the right looking downwind
+        double cross = x * _nx + y * _ny;      // to the right looking upwind (docs/scenario.md: bend and pressure)
         // Patterns travel downwind at the starting mean speed: a point 'along' metres downwind sees at t what the origin saw at t - along/U.
         double adv = _u0 > 0.1 ? _u0 : 0.1;
         double tau = t - along * (adv == _u0 ? _invU0 : 1 / adv);
         double dir = s.DirectionDeg + TabulatedShift(tau) + s.PersistentDegPerMin * tau * (1 / 60.0)
-                     + s.BendDeg * Math.Clamp(-cross * (1 / BendWidthM), -0.5, 0.5);
-        double u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (-cross * 0.001);
+                     + s.BendDeg * Math.Clamp(cross * (1 / BendWidthM), -0.5, 0.5);
+        double u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (cross * 0.001);
         if (s.BandAmplitudeKn != 0) u += Unit.KnotsToMs(s.BandAmplitudeKn) * Math.Sin(2 * Math.PI * (along - adv * t) / s.BandSpacingM);
         u = Math.Max(u, 0);
         if (_gu is not null)
         {
             double xi = along - adv * t;
             double a = xi * _ca - cross * _sa, b = xi * _sa + cross * _ca;
-            double du = _sigmaU * _gu.At(a, b);
-            double dv = 0.8 * _sigmaU * _gv!.At(a, b);
+            double du = _sigmaU * (_gu.At(a, b) + _fu!.At(a, b));
+            double dv = 0.8 * _sigmaU * (_gv!.At(a, b) + _fv!.At(a, b));
             double uu = Math.Max(u + du, 0);
             dir += Unit.RadToDeg(FastMath.Atan2(dv, Math.Max(uu, 0.1))); // to 1e-5 rad (6e-4 deg)
             u = Math.Sqrt(uu * uu + dv * dv);
