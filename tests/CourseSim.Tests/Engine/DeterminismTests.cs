@@ -147,8 +147,8 @@ public class DeterminismTests
 
     // Golden hashes of the final state (every component, clock, log, splits, recorded samples) of the two demos at their
     // own seeds. Change them only on purpose, with a note in the commit saying why (docs/engine.md, "Determinism").
-    const string GoldenDemo12 = "936f5ffbb4f012e376b0acd7364e54411fb525586522e4e7e33fb29a1e882115"; // 2 Dec 2026: gust tiles from Box-Muller pairs, shift table by phasor rotation (wind set-up cost)
-    const string GoldenDemo40 = "fd1540d36f5ef612bff5e548e2a03a6ed31600b4cafff61e6c2ba89884c671dc"; // 2 Dec 2026: the same
+    const string GoldenDemo12 = "96bf56e878fbcbf812c252f8b5a0ec2f5a55fb206a4c88c2dec4a9823441172e"; // 2 Dec 2026: start on time and distance with the board's own acceleration, OCS by any part of the hull (issue 12)
+    const string GoldenDemo40 = "2c1d6e7162c7c1200b237d4fb1155000fe21f0fae267b56119be4d6aaa6cd2ad"; // 2 Dec 2026: the same
 
     [Fact]
     public void GoldenHashesOfTheDemos()
