@@ -73,7 +73,12 @@ public sealed class DecideSystem : RaceSystem
         if (pen.Owed > 0 && pen.Stage == 0) PenaltyTurn.MaybeStart(c, b, ref pen, in pose, in sw, in man, in st);
         if (pen.Stage > 0) PenaltyTurn.Steer(c, b, ref pen, ref per, in pose, in sw, in man, ref h, ref pw);
         helm.PlannedH = h;
-        if (gw.On && c.Time >= gw.AtS) { h = gw.Heading; pw = gw.Power; }
+        if (gw.On && c.Time >= gw.AtS)
+        {
+            // Before the signal a rider keeping clear turns as the lookout says but sheets in no more than the start
+            // plan wants: sheeting in near the line would carry them over early (docs/tactics.md, "Start plans").
+            h = gw.Heading; pw = st.State == RaceState.PreStart && c.Time < 0 ? Math.Min(gw.Power, pw) : gw.Power;
+        }
         it.Heading = h; it.Power = pw; it.TargetSpeed = helm.WantV;
     }
 
@@ -102,13 +107,16 @@ public sealed class DecideSystem : RaceSystem
         switch (st.State)
         {
             case RaceState.PreStart when c.Time < 0:
-                (heading, power) = StartPlanner.Countdown(c, b, ref blk.Start[i], p, blk.Motion[i].Speed, tws, from, tack);
+                (heading, power) = StartPlanner.Countdown(c, b, ref blk.Start[i], p, pose.Heading, blk.Motion[i].Speed, tws, from, tack);
                 break;
             case RaceState.PreStart:
-                heading = Navigation.LegHeading(rig, p, new Vec2(blk.Start[i].SpotX, blk.Start[i].SpotY), tws, from, tack, mayTurn);
+                // After the signal, not yet started (late, or back from an early start): the run to the line.
+                heading = StartPlanner.RunHeading(c, rig, p, new Vec2(blk.Start[i].SpotX, blk.Start[i].SpotY), tws, from, tack);
                 break;
             case RaceState.Returning:
-                heading = Navigation.LegHeading(rig, p, new Vec2(blk.Start[i].WaitX, blk.Start[i].WaitY), tws, from, tack, mayTurn);
+                // Back below the line after an early start: bear away on the same tack, part sheeted, letting the
+                // starters go by (no gybe needed); once wholly below, the run to the line brings it back up.
+                (heading, power) = StartPlanner.BackOff(c, b, p, new Vec2(blk.Start[i].WaitX, blk.Start[i].WaitY), tws, from, tack);
                 break;
             default:
             {

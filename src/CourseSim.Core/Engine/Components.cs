@@ -96,8 +96,12 @@ public struct Helm
 /// </summary>
 public struct Perception { public double NoiseDir, NoiseSpeed, ReadFromDeg, ReadSpeed, LastTurnS; }
 
-/// <summary>The start plan: the spot on the line (m), the waiting point below it (m), the planned arrival after the signal (s), and its phase.</summary>
-public struct StartPlan { public double SpotX, SpotY, WaitX, WaitY, GoMarginS; public bool Holding, Going; }
+/// <summary>
+/// The start plan: the spot on the line (m), the holding point below it (m), the planned arrival of the bow after the
+/// signal (s), the rider's misjudgement of their distance to the line (m, positive: they think they are further back),
+/// and its phase (waiting further back, approaching the holding point, holding, going).
+/// </summary>
+public struct StartPlan { public double SpotX, SpotY, WaitX, WaitY, GoMarginS, LineErrorM; public bool Approaching, Holding, Going; }
 
 /// <summary>
 /// Keeping clear (the rules' lookout): whether the rider is giving way, to which board, under which rule (a code of

@@ -3,8 +3,10 @@ using CourseSim.Courses;
 namespace CourseSim.Engine.Systems;
 
 /// <summary>
-/// Course progress: the start (a board on the course side of the line at the signal is on the course side early and
-/// must return below the line), mark roundings on the required side (the wrong side is counted and does not count as
+/// Course progress: the start (RRS 29.1 and the definition "Start", unchanged by Appendix B: a board with any part of
+/// its hull on the course side of the line at the signal is on the course side early and must return until her whole
+/// hull is below the line; a board starts when, after the signal, the first part of its hull, the bow, crosses the
+/// line), mark roundings on the required side (the wrong side is counted and does not count as
 /// rounding), gates and the finish (time interpolated within the step). A finished board gets the <see cref="Done"/>
 /// tag through the command buffer, applied after the step.
 /// </summary>
@@ -12,7 +14,7 @@ public sealed class CourseProgressSystem : RaceSystem
 {
     public override string Name => "course progress";
     public override SystemScope Scope => SystemScope.OwnBoard;
-    public override string Reads => "Pose, Wake (last position); course";
+    public override string Reads => "Pose, Wake (last position); course; hull lengths";
     public override string Writes => "RaceStatus, Wake, splits, events, Done (deferred)";
 
     public override void RunBoards(RaceContext c, ref BoardBlock blk)
@@ -28,21 +30,32 @@ public sealed class CourseProgressSystem : RaceSystem
         switch (s.State)
         {
             case RaceState.PreStart:
-                if (time < 0 && t1 >= 0 && line.Ahead(p1) > 0 && WithinLine(line, p1))
+            {
+                // The hull is the stern-to-bow segment along the heading (as the rules see it: Rules/RightOfWay.cs).
+                var half = 0.5 * c.Fleet.LengthM[b] * new Vec2(Math.Sin(pose.Heading), Math.Cos(pose.Heading));
+                var lead = line.Ahead(p1 + half) >= line.Ahead(p1 - half) ? half : -1.0 * half; // the end further up the course
+                var e0 = p0 + lead; var e1 = p1 + lead;
+                if (time < 0 && t1 >= 0 && line.Ahead(e1) > 0 && WithinLine(line, e1))
                 {
                     s.State = RaceState.Returning; s.Ocs = true;
-                    c.AddEvent(b, RaceEventKind.Ocs, pose, "on the course side at the signal");
+                    c.AddEvent(b, RaceEventKind.Ocs, pose, $"on the course side at the signal (by {line.Ahead(e1):0.00} m)");
                 }
-                else if (t1 >= 0 && line.Ahead(p0) <= 0 && line.Ahead(p1) > 0 && Segment.Crosses(p0, p1, line.A, line.B, out _))
+                // Started: the leading end is over the line between its ends, coming from below (the trailing end was
+                // below it a step ago; a turn can swing the bow over without the hull's centre moving much).
+                else if (t1 >= 0 && line.Ahead(e1) > 0 && line.Ahead(p0 - lead) <= 0 && BetweenEnds(line, e1))
                 {
                     s.State = RaceState.Racing;
-                    s.StartedS = Math.Max(0, CrossTime(c, line, p0, p1));
-                    c.Log.Add(s.StartedS, b, RaceEventKind.Started, p1.X, p1.Y, s.Ocs ? "after returning" : "");
+                    s.StartedS = Math.Max(0, line.Ahead(e0) <= 0 ? CrossTime(c, line, e0, e1) : time);
+                    c.Log.Add(s.StartedS, b, RaceEventKind.Started, e1.X, e1.Y, s.Ocs ? "after returning" : "");
                 }
                 break;
+            }
             case RaceState.Returning:
-                if (line.Ahead(p1) < 0) { s.State = RaceState.PreStart; c.AddEvent(b, RaceEventKind.Cleared, pose, "back below the line"); }
+            {
+                var half = 0.5 * c.Fleet.LengthM[b] * new Vec2(Math.Sin(pose.Heading), Math.Cos(pose.Heading));
+                if (Math.Max(line.Ahead(p1 + half), line.Ahead(p1 - half)) < 0) { s.State = RaceState.PreStart; c.AddEvent(b, RaceEventKind.Cleared, pose, "whole hull back below the line"); }
                 break;
+            }
             case RaceState.Racing:
                 {
                     int r = c.Course.Check(s.NextStep, p0, p1);
@@ -78,6 +91,12 @@ public sealed class CourseProgressSystem : RaceSystem
         var d = (line.B - line.A).Unit();
         double along = Vec2.Dot(p - line.A, d);
         return along >= -5 && along <= line.Length + 5;
+    }
+
+    static bool BetweenEnds(CourseLine line, Vec2 p)
+    {
+        double along = Vec2.Dot(p - line.A, (line.B - line.A).Unit());
+        return along >= 0 && along <= line.Length;
     }
 
     /// <summary>When (s from the signal) the step from p0 to p1, ending at Time + Dt, crossed the line (linear in the step).</summary>
