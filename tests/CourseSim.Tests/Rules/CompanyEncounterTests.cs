@@ -53,8 +53,9 @@ public partial class EncounterTests
         // Two boards running abeam, 3 to 8 m apart, towards the port-gybe layline: the leeward one (on the inside of the
         // gybe) gybes away from the other; the windward one gybes as soon as that is clear, or sheets out and gybes
         // astern. Each is compared with where it gybes sailing alone on the same seed (the riders read the wind with an
-        // error, so the layline each sees differs from the true one by up to 20 m here). Before issue 12 both held on
-        // beside each other 65-320 m past the layline (one pair never gybed in 200 s). Measured now: the leeward board
+        // error, so the layline each sees differs from the true one by up to 20 m here). With the old gybe vetting
+        // (any board within 12 m puts a gybe off) both held on beside each other 22-320 m past the layline, and this
+        // test fails. Measured now: the leeward board
         // gybes within 2 m of its lone gybe, the windward one up to 30 m (about five seconds of running) later, having
         // waited for the other's gybe or dropped astern of it; no contact. The bound is 35 m.
         var log = new List<string>();
