@@ -105,15 +105,22 @@ public struct StartPlan { public double SpotX, SpotY, WaitX, WaitY, GoMarginS, L
 
 /// <summary>
 /// Keeping clear (the rules' lookout): whether the rider is giving way, to which board, under which rule (a code of
-/// <c>Rules.RuleCodes</c>), from when (s, after their reaction time), on which heading (rad) and power.
+/// <c>Rules.RuleCodes</c>), from when (s, after their reaction time), on which heading (rad) and power; since when a
+/// wanted gybe has been put off (s, NaN when none).
 /// </summary>
-public struct GiveWay { public bool On; public int Other; public byte Rule; public double AtS, Heading, Power; public int Episodes; }
+public struct GiveWay { public bool On; public int Other; public byte Rule; public double AtS, Heading, Power; public int Episodes; public double DeferS; }
 
 /// <summary>One-turn penalties: owed, taken, and the stage of the one being served (0 none, 1-4) with its turning sign.</summary>
 public struct Penalty { public int Owed, Taken, Stage, Sign; }
 
 /// <summary>
 /// Book-keeping of the board's own past: where it was at the last step (m, for line and rounding crossings), when it last
-/// began a tack or gybe and how near the nearest board was then (for the judge's "begun too close").
+/// began a tack or gybe and how near the nearest board was then (for the judge's "begun too close"); its recent headings.
 /// </summary>
-public struct Wake { public double PrevX, PrevY, TurnStartS, TurnStartNearestM; }
+public struct Wake
+{
+    public double PrevX, PrevY, TurnStartS, TurnStartNearestM;
+    /// <summary>The heading (rad) sampled about once a second by the lookout (H0 newest, taken at HistS; HistN samples so far), for the judge's rule 16.1.</summary>
+    public double H0, H1, H2, H3, HistS;
+    public int HistN;
+}

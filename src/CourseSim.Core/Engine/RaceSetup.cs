@@ -48,6 +48,10 @@ public sealed record RuleSettings
 {
     /// <summary>Whether riders look out and keep clear as the rules ask (off: contacts are only judged).</summary>
     public bool GiveWay { get; init; } = true;
+    /// <summary>Whether right-of-way riders give room when changing course (RRS 16.1, the riders' part: a change of course into a board that could no longer keep clear is held off).</summary>
+    public bool GiveRoom { get; init; } = true;
+    /// <summary>Whether the judge applies rule 16.1 (a right-of-way board changing course without giving room broke it) and the exoneration of rule 43.1(a).</summary>
+    public bool JudgeRoom { get; init; } = true;
     /// <summary>Whether a board found to have broken a rule in a contact takes a one-turn penalty.</summary>
     public bool Penalties { get; init; } = true;
     /// <summary>Rate of each rider's lookout for conflicts, per second.</summary>

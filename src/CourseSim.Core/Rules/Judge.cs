@@ -14,6 +14,35 @@ public static class Judge
     public static readonly string[] RuleText = Enumerable.Range(0, 32).Select(i => i == 0 ? "" : i.ToString(System.Globalization.CultureInfo.InvariantCulture)).ToArray();
 
     public const byte Rule13 = 13, Rule14 = 14, Rule16 = 16, Rule18 = 18, Rule22 = 22;
+    /// <summary>Rule 16.1 (a right-of-way board changing course gives the other room to keep clear), as a code.</summary>
+    public const byte Rule161 = 161;
+
+    /// <summary>A rule code as text ("16.1" for <see cref="Rule161"/>).</summary>
+    public static string RuleName(byte rule) => rule == Rule161 ? "16.1" : RuleText[rule];
+
+    /// <summary>
+    /// A right-of-way board's change of course counts under rule 16.1 from this many degrees (model value: the judge's
+    /// old "changed course" threshold), and the keep-clear rider needs their reaction time plus this long to respond to
+    /// it (model value: a bear-away or a luff of a board takes one to two seconds to open a gap), s.
+    /// </summary>
+    public const double AlterDeg = 15, RoomActS = 2;
+
+    /// <summary>
+    /// How far (deg) board b's heading has turned over the last <paramref name="windowS"/> seconds (at most four): the
+    /// largest difference between its heading now and the lookout's once-a-second samples within the window.
+    /// </summary>
+    public static double Altered(RaceContext c, int b, double windowS)
+    {
+        ref readonly var w = ref c.World.Get<Wake>(c.Fleet.Entities[b]);
+        double h = c.Snapshot.Heading[b], age = c.Time - w.HistS, turned = 0;
+        ReadOnlySpan<double> hist = [w.H0, w.H1, w.H2, w.H3];
+        for (int i = 0; i < Math.Min(w.HistN, 4) && age + i <= windowS; i++)
+            turned = Math.Max(turned, Math.Abs(Unit.RadToDeg(Unit.WrapRadPi(h - hist[i]))));
+        return turned;
+    }
+
+    /// <summary>The window within which a right-of-way board's change of course leaves keep-clear board k no room (s).</summary>
+    public static double RoomWindowS(RaceContext c, int k) => Math.Min(4, c.Fleet.ReactionS[k] + RoomActS);
 
     static RuleBoard Of(RaceContext c, int b, double headingRad, bool tacking) =>
         new(c.Snapshot.X[b], c.Snapshot.Y[b], Unit.RadToDeg(headingRad), c.Fleet.LengthM[b], tacking);
@@ -43,11 +72,12 @@ public static class Judge
         var v = RightOfWay.Decide(ra, rb, from);
         int keep = v.KeepClear == 0 ? a : v.KeepClear == 1 ? b : -1;
         byte rule = (byte)v.Rule;
-        // Mark-room: both rounding or passing the same mark, overlapped.
+        // Mark-room: both rounding or passing the same mark, overlapped (a single mark, either mark of a gate, or an
+        // end of the finishing line: Appendix B's rule 18 applies at each; the mark is the one nearer the pair).
         var steps = c.Course.Steps;
-        if (s.NextStep[a] == s.NextStep[b] && s.NextStep[a] < steps.Count && steps[s.NextStep[a]].Kind == StepKind.Mark && v.Rule != RuleNumber.Rule13)
+        if (s.NextStep[a] == s.NextStep[b] && s.NextStep[a] < steps.Count && v.Rule != RuleNumber.Rule13)
         {
-            var mark = steps[s.NextStep[a]].Target;
+            var mark = MarkOf(steps[s.NextStep[a]], 0.5 * (ra.Centre + rb.Centre));
             double da = (ra.Centre - mark).Length, db = (rb.Centre - mark).Length;
             bool beatOpposite = v.Rule == RuleNumber.Rule10 && (Math.Abs(Sailing.SignedAngle(from, headingA)) < Math.PI / 2 || Math.Abs(Sailing.SignedAngle(from, s.Heading[b])) < Math.PI / 2);
             if (da < c.Rules.MarkRoomM && db < c.Rules.MarkRoomM && RightOfWay.Overlapped(ra, rb) && !beatOpposite)
@@ -59,6 +89,21 @@ public static class Judge
             }
         }
         return (keep, rule);
+    }
+
+    /// <summary>The mark of a course step that boards near <paramref name="p"/> round or pass: the mark itself, the nearer mark of a gate, the nearer end of the finishing line.</summary>
+    public static Vec2 MarkOf(CourseStep step, Vec2 p)
+    {
+        switch (step.Kind)
+        {
+            case StepKind.Gate:
+                var m1 = step.Mark!.Position; var m2 = step.Second!.Position;
+                return (m1 - p).Length <= (m2 - p).Length ? m1 : m2;
+            case StepKind.Finish when step.Line is { } line:
+                return (line.A - p).Length <= (line.B - p).Length ? line.A : line.B;
+            default:
+                return step.Target;
+        }
     }
 
     /// <summary>
@@ -109,7 +154,7 @@ public static class Judge
     /// instant whose centres are too far apart for the hulls to come within it is not worked out: the look-ahead's
     /// callers only use the gap when it falls short of the clearance they want).
     /// </summary>
-    public static double PredictedHullGap(RaceContext c, int a, double h, double sinH, double cosH, double v, int b, double below = double.PositiveInfinity)
+    public static double PredictedHullGap(RaceContext c, int a, double h, double sinH, double cosH, double v, int b, double below = double.PositiveInfinity, double horizonS = 6)
     {
         var s = c.Snapshot;
         double la = c.Fleet.LengthM[a], lb = c.Fleet.LengthM[b], accB = c.LookoutAccel[b];
@@ -124,7 +169,8 @@ public static class Judge
         double halves = 0.5 * (la + lb);
         double ka = 0.5 * la, kb = 0.5 * lb;
         double gap = double.PositiveInfinity;
-        for (int i = 0; i <= 12; i++)
+        int samples = (int)Math.Round(2 * Math.Min(horizonS, 6));
+        for (int i = 0; i <= samples; i++)
         {
             double tau = 0.5 * i;
             double db = Math.Max(0, s.Speed[b] * tau + 0.5 * accB * tau * tau); // b's run along its track, with its acceleration

@@ -35,6 +35,18 @@ public sealed class Lookout : RaceSystem
     /// <summary>Mean speed through a gybe away as a share of the present speed, and its score charge in degrees of turn (model values).</summary>
     public const double GybeAwaySpeedShare = 0.75, GybeAwayCharge = 40;
     /// <summary>
+    /// Least hull-to-hull gap through a gybe a rider accepts from any board (RRS 15, 16: room to keep clear), m (model
+    /// value: a little over one board length), and how long a rider waits beside a board that blocks the gybe before
+    /// sheeting out to drop astern of it and gybe there, s (model value: at once).
+    /// </summary>
+    public const double GybeClearM = 3, GybeWaitS = 0;
+    /// <summary>No gybe is begun with another hull closer than this, m (model value: a board's width with its rig swung).</summary>
+    public const double GybeMinGapM = 1.5;
+    /// <summary>A gybe that closes on another board goes ahead only if the hulls stay this far apart all through it, m (model value).</summary>
+    public const double GybeCrossM = 9;
+    /// <summary>A board alongside only lets a gybe go ahead when the gybe leads away from it at this rate or more, m/s (model value).</summary>
+    public const double GybeOpeningMs = 0.5;
+    /// <summary>
     /// A beating give-way rider (this close to the wind or closer, deg) may tack away onto the best VMG angle of the other
     /// tack, when no board is within <see cref="TurnAwayMinM"/>: at this share of the present speed over the look
     /// ahead, charged as this many degrees of turn (common practice; RRS 13 and 15; model values).
@@ -49,16 +61,27 @@ public sealed class Lookout : RaceSystem
 
     public override string Name => "rules lookout";
     public override SystemScope Scope => SystemScope.OwnBoard;
-    public override string Reads => "Helm, Penalty; snapshot; grid (neighbours, nearest); lookout accelerations";
-    public override string Writes => "GiveWay, own foreseen conflicts, events";
+    public override string Reads => "Helm, Penalty, Pose (heading); snapshot; grid (neighbours, nearest); lookout accelerations";
+    public override string Writes => "GiveWay, Wake (heading samples), own foreseen conflicts, events";
 
     readonly List<int> _threats = new();
     // The give-way events' texts, made once per (other board, rule): the step allocates none once they are made.
     readonly Dictionary<long, string> _texts = new();
 
+    /// <summary>Interval between the heading samples kept for the judge's rule 16.1, s.</summary>
+    public const double HeadingSampleS = 1;
+
     public override void RunBoards(RaceContext c, ref BoardBlock blk)
     {
-        if (!c.IsLookoutStep || !c.Rules.GiveWay) return;
+        if (!c.IsLookoutStep) return;
+        // The board's recent headings (the judge asks whether a right-of-way board changed course just before a contact).
+        for (int i = 0; i < blk.Count; i++)
+        {
+            ref var w = ref blk.Wake[i];
+            if (w.HistN > 0 && c.Time - w.HistS < HeadingSampleS - 1e-9) continue;
+            w.H3 = w.H2; w.H2 = w.H1; w.H1 = w.H0; w.H0 = blk.Pose[i].Heading; w.HistS = c.Time; w.HistN++;
+        }
+        if (!c.Rules.GiveWay) return;
         for (int i = 0; i < blk.Count; i++)
         {
             int k = blk.Id[i].Value;
@@ -71,7 +94,7 @@ public sealed class Lookout : RaceSystem
     /// keep clear of (or, when <paramref name="turning"/>, any board: RRS 15 and 16) passing within the margin in the
     /// lookahead, and right-of-way boards about to hit it that are not keeping clear themselves (RRS 14).
     /// </summary>
-    bool Threats(RaceContext c, int k, double h, double v, double margin, bool turning, ref int firstOther, ref byte firstRule)
+    bool Threats(RaceContext c, int k, double h, double v, double margin, bool turning, ref int firstOther, ref byte firstRule, bool gybing = false)
     {
         _threats.Clear();
         var s = c.Snapshot;
@@ -89,6 +112,19 @@ public sealed class Lookout : RaceSystem
                 continue;
             }
             var (keep, rule) = Judge.Decide(c, k, h, j);
+            // A gybe is vetted by the hulls' gap through the turn (the board keeps most of its speed on a run), not by
+            // the centres' closest approach: a board alongside that the gybe leads away from is no reason to put it off
+            // (two boards running side by side would otherwise each block the other's gybe: issue 12).
+            // A gybe that crosses another board's course goes ahead only with a wide gap all through it.
+            if (gybing && Judge.PredictedHullGap(c, k, h, sinH, cosH, v, j, GybeCrossM) >= GybeCrossM) continue;
+            if (gybing && Opening(s, k, sinH, cosH, v, j))
+            {
+                // The gap a gybe leading away must keep: the clearance, or what there is now when the boards are closer.
+                double now = RightOfWay.HullDistance(new RuleBoard(s.X[k], s.Y[k], Unit.RadToDeg(s.Heading[k]), c.Fleet.LengthM[k]),
+                                                     new RuleBoard(s.X[j], s.Y[j], Unit.RadToDeg(s.Heading[j]), c.Fleet.LengthM[j]));
+                double need = Math.Min(GybeClearM, now - 0.3);
+                if (now >= GybeMinGapM && Judge.PredictedHullGap(c, k, h, sinH, cosH, v, j, need) >= need) continue;
+            }
             bool mine = keep == k || turning && keep >= 0;
             bool lastMoment = keep == j && t < LastMomentS && !s.KeepingClear[j];
             if (keep == k && (!c.Foreseen.TryGetValue(key, out var seen) || seen.Rule != rule)) c.Foreseen[key] = new Foreseen(c.Time, rule, s.Heading[j]);
@@ -97,6 +133,14 @@ public sealed class Lookout : RaceSystem
             if (firstOther < 0) { firstOther = j; firstRule = keep == k ? rule : turning ? Judge.Rule16 : Judge.Rule14; }
         }
         return _threats.Count > 0;
+    }
+
+    /// <summary>Whether board j draws away from board k making good the track whose sine and cosine are given at v (range opening at <see cref="GybeOpeningMs"/> or more).</summary>
+    static bool Opening(StepSnapshot s, int k, double sinH, double cosH, double v, int j)
+    {
+        double rx = s.X[j] - s.X[k], ry = s.Y[j] - s.Y[k], r = Math.Sqrt(rx * rx + ry * ry);
+        double vx = s.Speed[j] * s.TrackSin[j] - v * sinH, vy = s.Speed[j] * s.TrackCos[j] - v * cosH;
+        return r > 1e-6 && (rx * vx + ry * vy) / r >= GybeOpeningMs;
     }
 
     void One(RaceContext c, int k, in Helm helm, in Penalty pen, ref GiveWay gw)
@@ -112,13 +156,24 @@ public sealed class Lookout : RaceSystem
         bool turning = Math.Sign(Sailing.SignedAngle(from, want)) != side;
         // Until a pending decision takes effect the present one still steers: a tack it asks for is vetted too.
         if (!turning && Math.Sign(Sailing.SignedAngle(from, helm.PlannedH)) != side) { want = helm.PlannedH; turning = true; }
-        double va = turning ? 0.3 * s.Speed[k] : Math.Max(s.Speed[k], 1.0);
+        // Running, a gybe keeps most of the speed; a tack nearly stops the board.
+        bool gybing = turning && Math.Abs(Sailing.SignedAngle(from, want)) > Math.PI / 2 && Math.Abs(Sailing.SignedAngle(from, s.Heading[k])) > Math.PI / 2;
+        double va = gybing ? GybeAwaySpeedShare * s.Speed[k] : turning ? 0.3 * s.Speed[k] : Math.Max(s.Speed[k], 1.0);
         int firstOther = -1; byte firstRule = 0;
         double margin = gw.On ? ConflictM * 1.3 : ConflictM; // hysteresis: release only when clearly clear
-        if (!Threats(c, k, want, va, turning ? margin * TurnMarginShare : margin, turning, ref firstOther, ref firstRule))
+        if (!Threats(c, k, want, va, turning ? margin * TurnMarginShare : margin, turning, ref firstOther, ref firstRule, gybing))
         {
-            gw.On = false; return;
+            gw.DeferS = double.NaN;
+            // RRS 16.1: a right-of-way rider changing course gives the other board room to keep clear; one that could
+            // no longer keep clear is not turned into: the present course is held until it can.
+            int crowded = turning || !c.Rules.GiveRoom ? -1 : NoRoom(c, k, want);
+            if (crowded < 0) { gw.On = false; return; }
+            Start(c, k, ref gw, pending ? helm.PendAt : double.NaN, crowded, Judge.Rule161);
+            gw.Heading = s.Track[k]; gw.Power = 1;
+            return;
         }
+        if (!gybing) gw.DeferS = double.NaN;
+        else if (double.IsNaN(gw.DeferS)) gw.DeferS = c.Time;
         double cur = s.Track[k];
         double baseH = want;
         if (turning)
@@ -129,7 +184,10 @@ public sealed class Lookout : RaceSystem
             if (!Threats(c, k, cur, va, margin, false, ref o2, ref r2))
             {
                 Start(c, k, ref gw, pending ? helm.PendAt : double.NaN, firstOther, firstRule);
-                gw.Heading = cur; gw.Power = 1;
+                gw.Heading = cur;
+                // A gybe blocked by a board alongside for more than a moment: the rider sheets out and drops astern of
+                // it, to gybe across its wake, rather than sail on past the layline beside it.
+                gw.Power = gybing && c.Time - gw.DeferS >= GybeWaitS ? 0 : 1;
                 return;
             }
         }
@@ -189,6 +247,31 @@ public sealed class Lookout : RaceSystem
         return (bestH, bestP);
     }
 
+    /// <summary>
+    /// A board that must keep clear of board k (rules 10-12) and could not if k now changed course to h: on the new
+    /// course their hulls would come within the passing gap sooner than that rider can react and act (<see
+    /// cref="Judge.RoomWindowS"/>), and on the present course they would not. -1 when none (or the change is small).
+    /// </summary>
+    int NoRoom(RaceContext c, int k, double h)
+    {
+        var s = c.Snapshot;
+        double cur = s.Track[k];
+        if (Math.Abs(Unit.WrapRadPi(h - cur)) < Unit.DegToRad(Judge.AlterDeg) * 0.5) return -1;
+        double v = Math.Max(s.Speed[k], 1.0), sinH = Math.Sin(h), cosH = Math.Cos(h), sinC = Math.Sin(cur), cosC = Math.Cos(cur);
+        foreach (int j in c.Grid.Neighbours(k))
+        {
+            var (keep, rule) = Judge.Decide(c, k, h, j);
+            if (keep != j || rule is not (10 or 11 or 12)) continue;
+            double win = Judge.RoomWindowS(c, j);
+            double clear = Judge.PassClear(s, sinH, cosH, v, j);
+            if (Judge.PredictedHullGap(c, k, h, sinH, cosH, v, j, clear, win) >= clear) continue;
+            double clearNow = Judge.PassClear(s, sinC, cosC, v, j);
+            if (Judge.PredictedHullGap(c, k, cur, sinC, cosC, v, j, clearNow, win) < clearNow) continue; // not the change's doing
+            return j;
+        }
+        return -1;
+    }
+
     /// <summary>A new give-way episode (or the same rider now keeping clear of another board, or under another rule).</summary>
     void Start(RaceContext c, int k, ref GiveWay gw, double pendingAt, int other, byte rule)
     {
@@ -199,7 +282,9 @@ public sealed class Lookout : RaceSystem
         var s = c.Snapshot;
         long key = ((long)other << 8) | rule;
         if (!_texts.TryGetValue(key, out var text))
-            _texts[key] = text = rule == Judge.Rule16 ? $"puts off a tack or gybe near {c.Fleet.Names[other]} (rule 16)" : $"keeps clear of {c.Fleet.Names[other]} (rule {Judge.RuleText[rule]})";
+            _texts[key] = text = rule == Judge.Rule16 ? $"puts off a tack or gybe near {c.Fleet.Names[other]} (rule 16)"
+                : rule == Judge.Rule161 ? $"holds its course: room for {c.Fleet.Names[other]} to keep clear (rule 16.1)"
+                : $"keeps clear of {c.Fleet.Names[other]} (rule {Judge.RuleName(rule)})";
         c.Log.Add(c.Time, k, RaceEventKind.GiveWay, s.X[k], s.Y[k], text);
     }
 }

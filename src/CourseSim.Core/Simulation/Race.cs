@@ -68,7 +68,7 @@ public sealed class Race
             World.Add(e, new Helm { WantP = 0.5, PendAt = double.PositiveInfinity, HoldTwaDeg = double.NaN });
             World.Add(e, new Perception { LastTurnS = double.NegativeInfinity });
             World.Add(e, new StartPlan());
-            World.Add(e, new GiveWay());
+            World.Add(e, new GiveWay { DeferS = double.NaN });
             World.Add(e, new Penalty());
             World.Add(e, new Wake { TurnStartS = double.NegativeInfinity });
             fleet.Entities[b] = e;
@@ -155,7 +155,7 @@ public sealed class Race
         ref var st = ref World.Get<RaceStatus>(e);
         st.State = RaceState.Racing; st.Ocs = false; st.NextStep = nextStep; st.StartedS = Time;
         ref var wake = ref World.Get<Wake>(e);
-        wake.PrevX = x; wake.PrevY = y;
+        wake.PrevX = x; wake.PrevY = y; wake.HistN = 0;
         _c.Snapshot.Capture(_c.All, Time);
     }
 

@@ -45,6 +45,8 @@ public static class ScenarioFile
         KeySpec.Derived("boards.*.start_margin_s", -5, 30, "when after the signal the rider plans to reach the line on time-on-distance, s (default: 1.5 s with the rider's misjudgement)"),
         KeySpec.Flag("rules.give_way", true, "riders look out and keep clear as the right-of-way rules ask (false: contacts are only judged)"),
         KeySpec.Flag("rules.penalties", true, "a board at fault in a contact takes a one-turn penalty"),
+        KeySpec.Flag("rules.give_room", true, "right-of-way riders changing course give the other room to keep clear (RRS 16.1)"),
+        KeySpec.Flag("rules.judge_room", true, "the judge applies RRS 16.1 to right-of-way boards changing course and the exoneration of 43.1(a)"),
         KeySpec.Number("rules.lookout_hz", 1, 20, 5, "rate of each rider's lookout for conflicts, per second"),
         KeySpec.Number("rules.contact_m", 0.2, 3, 1.0, "hulls closer than this are in contact, m"),
         KeySpec.Number("rules.mark_room_m", 5, 60, 15, "boards this close to the mark they are about to round are rounding or passing (mark-room), m"),
@@ -162,6 +164,7 @@ public static class ScenarioFile
         var rules = new RuleSettings
         {
             GiveWay = f.Flag("rules.give_way"), Penalties = f.Flag("rules.penalties"), LookoutHz = f.Number("rules.lookout_hz"),
+            GiveRoom = f.Flag("rules.give_room"), JudgeRoom = f.Flag("rules.judge_room"),
             ContactM = f.Number("rules.contact_m"), MarkRoomM = f.Number("rules.mark_room_m"),
         };
         return new RaceSetup(f.Text("name"), f.Text("description"), f.Text("venue.name"), f.Number("venue.lat_deg"), f.Number("venue.lon_deg"),

@@ -11,7 +11,7 @@ namespace CourseSim.Tests.Rules;
 /// the same geometry ends in contact, judged against the board that should have kept clear, which then serves a
 /// one-turn penalty (RRS 44.1 as changed by Appendix B).
 /// </summary>
-public class EncounterTests
+public partial class EncounterTests
 {
     /// <summary>A scripted rider (registered as a user tactic would be): hold a true wind angle at a power, tack once at a time.</summary>
     sealed class Hold(TacticArgs a) : ITactic

@@ -29,7 +29,7 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
             output.WriteLine($"{i.TimeS,7:F1} s ({i.X:F0}, {i.Y:F0}) rule {i.Rule} keep clear {i.KeepClear} other {i.RightOfWay}: {i.Detail}");
         Assert.True(res.Boards.Count(b => b.Finished) >= 36, $"{res.Boards.Count(b => b.Finished)} of 40 finished");
         Assert.All(res.Incidents, i => Assert.False(i.Avoidable, $"avoidable contact at {i.TimeS:F1} s: {i.Detail}"));
-        Assert.All(res.Incidents, i => Assert.Contains(i.Rule, new[] { "10", "11", "12", "13", "18", "22" }));
+        Assert.All(res.Incidents, i => Assert.Contains(i.Rule, new[] { "10", "11", "12", "13", "15", "16.1", "18", "22", "43.1(a)" }));
         // Riders did give way (the logic was exercised, not idle), and each penalty given was taken.
         Assert.True(res.Boards.Sum(b => b.GiveWays) > 100, $"{res.Boards.Sum(b => b.GiveWays)} give-way episodes");
         Assert.Equal(res.Incidents.Count(i => i.Penalty), res.Boards.Sum(b => b.Penalties + b.PenaltiesNotTaken));
@@ -48,7 +48,8 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
         output.WriteLine($"give-way on: {res.Incidents.Count} contacts; off: {off.Incidents.Count}");
         Assert.True(off.Incidents.Count >= res.Incidents.Count + 10, $"{off.Incidents.Count} contacts with nobody giving way, {res.Incidents.Count} with");
         Assert.All(off.Incidents, i => Assert.Contains(i.Rule, new[] { "10", "11", "12", "13", "18", "22" }));
-        Assert.All(off.Incidents.Where(i => i.Rule != "22"), i => Assert.Equal("give-way logic off", i.Detail));
+        // (A rule 18 verdict adds where the mark-room was owed: "give-way logic off; mark-room at the gate".)
+        Assert.All(off.Incidents.Where(i => i.Rule != "22"), i => Assert.StartsWith("give-way logic off", i.Detail));
         // Every penalty given is either served (an event each) or listed as not taken (never well clear before the finish).
         int given = off.Incidents.Count(i => i.Penalty), taken = off.Boards.Sum(b => b.Penalties);
         output.WriteLine($"penalties given {given}, taken {taken}, not taken {off.Boards.Sum(b => b.PenaltiesNotTaken)}");
