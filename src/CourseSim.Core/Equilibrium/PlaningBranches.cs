@@ -115,6 +115,14 @@ public sealed class PlaningBranches
         return b;
     }
 
+    /// <summary>Whether a rider starting off the plane at this wind and angle gets planing (the wind alone or pumping
+    /// carries the board over the hump): <see cref="Branches.PlanesWithPumping"/> without the sustained-speed search.</summary>
+    public bool GetsPlaning(double tws, double twa)
+    {
+        var (disp, plan) = Roots(tws, twa);
+        return plan is double p && (disp is not double d || PumpsOver(tws, twa, d, p));
+    }
+
     /// <summary>
     /// Both branches at one wind speed and angle. <paramref name="canGetPlaning"/>: the rider can get planing somewhere
     /// in this wind (heading up to a reach if need be), so the planing branch is open to them on every angle where it exists.

@@ -20,7 +20,15 @@ public sealed class RigPolar
     readonly double[] _getUpTwa, _getDownTwa; // per tws: the closest-hauled / deepest angle at which a board off the plane gets planing (NaN: none)
     readonly int _nt;
 
-    /// <summary>Builds the rig tables and polar of a set-up (tens of milliseconds: share them through a <see cref="RigCache"/>).</summary>
+    readonly PlaningBranches _branches;
+    readonly double[] _tws;
+    readonly bool[][] _plan;           // per listed wind (built on demand): whether the planing branch exists at each angle
+    readonly bool[] _ready;            // per listed wind: the row of the tables is built
+    readonly Dictionary<int, double> _dropOffMemo = new();
+    readonly object _build = new();
+
+    /// <summary>Builds the rig tables of a set-up; the polar's rows are built on first use, one wind speed at a time
+    /// (a race reads the few winds it meets). Share them through a <see cref="RigCache"/>.</summary>
     public static RigPolar Build(Equipment eq) => new(new RigDynamics(eq));
 
     public RigPolar(RigDynamics rig)
@@ -32,28 +40,82 @@ public sealed class RigPolar
         _upTwa = new double[_nt]; _downTwa = new double[_nt]; _upVmg = new double[_nt]; _downVmg = new double[_nt];
         _getUpTwa = new double[_nt]; _getDownTwa = new double[_nt];
         double burst = rig.Physics.Rider.PowerFor(VelocityPrediction.PumpBurstS);
-        var branches = new PlaningBranches((tws, twa, v) => rig.SteadyNetForce(tws * rig.GradientFactor(tws), twa, v),
+        _branches = new PlaningBranches((tws, twa, v) => rig.SteadyNetForce(tws * rig.GradientFactor(tws), twa, v),
             v => rig.Physics.Rider.PumpThrust(burst, v), rig.Hull.SpeedAtFroude(Hull.HullModel.DropOffFroude), 40);
-        var get = new bool[TwaSteps + 1];
-        for (int w = 0; w < _nt; w++)
+        _tws = new double[_nt];
+        for (int w = 0; w < _nt; w++) _tws[w] = Unit.KnotsToMs(w * TwsStepKn);
+        _plan = new bool[_nt][];
+        _ready = new bool[_nt];
+    }
+
+    /// <summary>Builds every row now (the polar command and tests that read the whole table).</summary>
+    public RigPolar Complete()
+    {
+        Parallel.For(0, _nt, Ensure);
+        return this;
+    }
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    void Ensure(int w)
+    {
+        if (!Volatile.Read(ref _ready[w])) BuildRow(w);
+    }
+
+    bool[] PlanRow(int w)
+    {
+        // Called under the build lock.
+        if (_plan[w] is { } row) return row;
+        row = new bool[TwaSteps + 1];
+        for (int a = 0; a <= TwaSteps; a++) row[a] = _branches.Roots(_tws[w], Unit.DegToRad(a)).Plan is not null;
+        return _plan[w] = row;
+    }
+
+    // The drop-off wind of a cell (PlaningBranches.DropOffWind over the same band) searched only inside the one listed
+    // wind step where the branch appears, memoised per angle and step: searching it from scratch for every cell made
+    // building a rig take seconds.
+    double DropOff(int a, double twsMs, bool planHere)
+    {
+        var br = _branches;
+        double twa = Unit.DegToRad(a), sd = PlaningBranches.GustShare * Math.Max(twsMs, 0.5);
+        double lo = Math.Max(0.5, twsMs - 4 * sd), hi = planHere ? twsMs : twsMs + 4 * sd;
+        if (br.Roots(lo, twa).Plan is not null) return lo;
+        int g = 0;
+        while (g < _nt && (_tws[g] <= lo || !PlanRow(g)[a]))
         {
-            double tws = Unit.KnotsToMs(w * TwsStepKn);
+            if (_tws[g] > hi) break;
+            g++;
+        }
+        if (g >= _nt || _tws[g] > hi) return br.DropOffWind(twa, lo, hi);
+        double from = Math.Max(lo, _tws[g - 1]);
+        if (from > _tws[g - 1]) return br.DropOffWind(twa, from, _tws[g]);
+        int key = a * 1000 + g;
+        if (!_dropOffMemo.TryGetValue(key, out double d)) _dropOffMemo[key] = d = br.DropOffWind(twa, _tws[g - 1], _tws[g]);
+        return d;
+    }
+
+    void BuildRow(int w)
+    {
+        lock (_build)
+        {
+            if (_ready[w]) return;
+            var br = _branches;
+            double tw = _tws[w];
+            var plan = PlanRow(w);
+            var get = new bool[TwaSteps + 1];
             // The rider can get planing in this wind if the get-planing branch planes at some reaching angle.
-            var at = new Branches[TwaSteps + 1];
             bool canGet = false;
             for (int a = 0; a <= TwaSteps; a++)
             {
-                at[a] = branches.At(tws, Unit.DegToRad(a), false);
-                get[a] = at[a].PlanesWithPumping;
+                get[a] = br.GetsPlaning(tw, Unit.DegToRad(a));
                 canGet |= get[a];
             }
             double bestUp = 0, bestDown = 0; int upAt = 45, downAt = 150, getUp = -1, getDown = -1;
             for (int a = 0; a <= TwaSteps; a++)
             {
-                var br = canGet ? branches.At(tws, Unit.DegToRad(a), true) : at[a];
-                double v = br.Sustained;
+                var b = canGet ? br.At(tw, Unit.DegToRad(a), true, DropOff(a, tw, plan[a])) : br.At(tw, Unit.DegToRad(a), false);
+                double v = b.Sustained;
                 _speed[w * (TwaSteps + 1) + a] = (float)v;
-                _get[w * (TwaSteps + 1) + a] = (float)br.GetPlaning;
+                _get[w * (TwaSteps + 1) + a] = (float)b.GetPlaning;
                 double vmg = v * Math.Cos(Unit.DegToRad(a));
                 if (a >= 25 && a <= 90 && vmg > bestUp) { bestUp = vmg; upAt = a; }
                 if (a >= 90 && a <= 178 && -vmg > bestDown) { bestDown = -vmg; downAt = a; }
@@ -63,6 +125,7 @@ public sealed class RigPolar
             _upTwa[w] = Unit.DegToRad(upAt); _downTwa[w] = Unit.DegToRad(downAt); _upVmg[w] = bestUp; _downVmg[w] = bestDown;
             _getUpTwa[w] = getUp < 0 ? double.NaN : Unit.DegToRad(getUp);
             _getDownTwa[w] = getDown < 0 ? double.NaN : Unit.DegToRad(getDown);
+            Volatile.Write(ref _ready[w], true);
         }
     }
 
@@ -89,6 +152,7 @@ public sealed class RigPolar
     public double GetPlaningTwa(double twsMs, bool upwind)
     {
         int w = (int)Math.Clamp(Math.Round(Unit.MsToKnots(twsMs) / TwsStepKn), 0, _nt - 1);
+        Ensure(w);
         return upwind ? _getUpTwa[w] : _getDownTwa[w];
     }
 
@@ -96,6 +160,7 @@ public sealed class RigPolar
     {
         var _speed = table;
         var (w, fw) = Index(Unit.MsToKnots(twsMs), TwsStepKn, _nt);
+        Ensure(w); Ensure(w + 1);
         var (a, fa) = Index(Unit.RadToDeg(Math.Abs(Unit.WrapRadPi(twaRad))), 1, TwaSteps + 1);
         int r0 = w * (TwaSteps + 1), r1 = r0 + TwaSteps + 1;
         double s0 = _speed[r0 + a] + fa * (_speed[r0 + a + 1] - _speed[r0 + a]);
@@ -106,6 +171,7 @@ public sealed class RigPolar
     double Lerp(double[] t, double twsMs)
     {
         var (w, fw) = Index(Unit.MsToKnots(twsMs), TwsStepKn, _nt);
+        Ensure(w); Ensure(w + 1);
         return t[w] + fw * (t[w + 1] - t[w]);
     }
 

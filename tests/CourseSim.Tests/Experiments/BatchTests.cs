@@ -129,7 +129,11 @@ public class ExperimentStatisticsTests(Xunit.Abstractions.ITestOutputHelper outp
     [Fact, Trait("Category", Slow.Category)]
     public void TheFalsePositiveRateOfAaExperimentsIsNearTheNominalLevel()
     {
-        var path = Folder(Short(12, $"[boards.a]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n[boards.b]\nequipment = \"{EngineTestKit.Equip("heavy-70.toml")}\"\n"),
+        // Four boards on one rig: the focus board's place varies from race to race (1 to 4), so the place difference's
+        // t interval meets the data it is meant for (with two unequal boards the places hardly move and it could only be
+        // conservative).
+        string same = $"equipment = \"{EngineTestKit.Equip("light-66.toml")}\"\n";
+        var path = Folder(Short(12, $"[boards.a]\n{same}[boards.b]\n{same}[boards.c]\n{same}[boards.d]\n{same}"),
             "scenario = \"race.toml\"\nraces = 1000\nseed = 11\nseeds = \"independent\"\n[variants.one]\nset = \"\"\n[variants.two]\nset = \"\"\n");
         var spec = ExperimentFile.Load(path);
         var rows = BatchRunner.Run(spec, Path.Combine(Path.GetDirectoryName(path)!, "out"), System.Environment.ProcessorCount, false);
@@ -154,15 +158,11 @@ public class ExperimentStatisticsTests(Xunit.Abstractions.ITestOutputHelper outp
         }
         string[] names = ["time t", "time studentised bootstrap", "place t", "win share Wilson"];
         output.WriteLine(string.Join("; ", names.Select((n, i) => $"{n}: {hits[i]} of 100")));
-        for (int i = 0; i < 2; i++)
+        for (int i = 0; i < 3; i++)
         {
             var rate = Statistics.Wilson(hits[i], 100);
             Assert.True(rate.Low <= 0.05 && 0.05 <= rate.High, $"{names[i]}: {hits[i]} of 100 A/A experiments resolved");
         }
-        // Places in a two-board race are 1 or 2, so the paired place differences take only -1, 0 and 1 and the t interval
-        // on them is conservative (measured: 2 of 100 on the engine of 1 Dec, 0 of 100 on the pipeline engine): like the
-        // win share below it must not be liberal.
-        Assert.True(Statistics.Wilson(hits[2], 100).Low <= 0.05, $"{names[2]}: {hits[2]} of 100");
         // The win share of 10 races is a binomial count: Wilson rejects 1/2 only at 0-1 or 9-10 wins of 10 (2.1 % of the
         // time), so it is conservative there; it must not be liberal.
         Assert.True(Statistics.Wilson(hits[3], 100).Low <= 0.05, $"{names[3]}: {hits[3]} of 100");
