@@ -31,6 +31,9 @@ public static class StartPlanner
     public const double StartApartM = 10;
     /// <summary>True wind angle a rider holds while waiting below the line, deg (common practice: luffing on a close reach).</summary>
     public const double HoldTwaDeg = 60;
+    /// <summary>Distance from an end of the line within which a rider making room does not bear away towards that end, m
+    /// (model value: a board's length or so inside the end, plus what bearing away covers in a few seconds).</summary>
+    public const double EndRoomM = 20;
     /// <summary>True wind angle and power a rider too close to the line bears away on to make room, deg and 0..1 (common practice: reach off below the line).</summary>
     public const double BackOffTwaDeg = 125, BackOffPower = 0.4;
     /// <summary>How long a rider means to hold their spot before going, s (common practice: settle a little before the run).</summary>
@@ -175,7 +178,16 @@ public static class StartPlanner
     public static (double Heading, double Power) BackOff(RaceContext c, int b, Vec2 p, Vec2 wait, double tws, double from, int tack)
     {
         double h = Unit.WrapRadPi(Unit.DegToRad(from) - tack * Unit.DegToRad(BackOffTwaDeg));
-        if (Vec2.Dot(Vec2.FromBearing(Unit.RadToDeg(h)), c.Course.Start.Normal) < -0.3) return (h, BackOffPower);
+        var line = c.Course.Start;
+        var dir = Vec2.FromBearing(Unit.RadToDeg(h));
+        // Bearing away along the line towards one of its ends, within EndRoomM of it (or past it), would take the board
+        // outside the line, from where it can only start by tacking or gybing back: there it luffs and drifts back instead.
+        var ab = line.B - line.A;
+        double len = Math.Max(ab.Length, 1e-9), u = Vec2.Dot(p - line.A, ab) / (len * len), room = EndRoomM / len;
+        double outward = Vec2.Dot(dir, ab);
+        if ((u < room && outward < 0) || (u > 1 - room && outward > 0))
+            return (Unit.WrapRadPi(Unit.DegToRad(from) - tack * Unit.DegToRad(HoldTwaDeg)), 0);
+        if (Vec2.Dot(dir, line.Normal) < -0.3) return (h, BackOffPower);
         return (Navigation.LegHeading(c.Fleet.Polars[b], p, wait, tws, from, tack, true), ApproachPower);
     }
 
