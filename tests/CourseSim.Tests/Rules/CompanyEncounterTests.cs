@@ -15,6 +15,9 @@ public partial class EncounterTests
 {
     // Leeward mark straight downwind (wind from the north), left to port; the boards start on starboard gybe east of it.
     const double RunMarkY = -500;
+    /// <summary>Wind of the running pair, kn: planing, so the best downwind angle is a broad reach with laylines to gybe on
+    /// (in 12 kn this rig's best run is dead downwind, off the plane: no layline).</summary>
+    const double RunKn = 16;
     const string RunCourse = "[course]\nkind = \"waypoints\"\norder = \"m far\"\n[course.marks.m]\nx_m = 0\ny_m = -500\nrounding = \"port\"\n" +
                              "[course.marks.far]\nx_m = 0\ny_m = 3000\n";
 
@@ -26,7 +29,7 @@ public partial class EncounterTests
     {
         var g = r.Events.FirstOrDefault(e => e.Board == b && e.Kind == RaceEventKind.Gybe);
         if (g.Kind != RaceEventKind.Gybe) return double.PositiveInfinity;
-        double down = Unit.RadToDeg(race.RigOf(b).BestTwa(Unit.KnotsToMs(Kn), false));
+        double down = Unit.RadToDeg(race.RigOf(b).BestTwa(Unit.KnotsToMs(RunKn), false));
         var dir = Vec2.FromBearing(down); // port gybe in a wind from the north: heading = the angle off the wind
         var aim = new Vec2(0, RunMarkY) + Navigation.RoundingOffsetM * new Vec2(-1, 0);
         return -Vec2.Cross(dir, new Vec2(g.X, g.Y) - aim);
@@ -35,8 +38,8 @@ public partial class EncounterTests
     /// <summary>Two boards on starboard gybe at the best downwind angle, abeam <paramref name="gapM"/> apart (0 = board b far away: a alone).</summary>
     static Race RunPair(ulong seed, double gapM, bool bAlone = false)
     {
-        var race = Build(Board("a", "vmg-layline") + Board("b", "vmg-layline"), course: RunCourse, seed: seed);
-        double tws = Unit.KnotsToMs(Kn);
+        var race = Build(Board("a", "vmg-layline") + Board("b", "vmg-layline"), course: RunCourse, seed: seed, kn: RunKn);
+        double tws = Unit.KnotsToMs(RunKn);
         double twa = Unit.RadToDeg(race.RigOf(0).BestTwa(tws, false));
         double v = race.RigOf(0).Speed(tws, Unit.DegToRad(twa));
         double h = Unit.WrapDeg360(-twa); // starboard gybe: the wind over the starboard side

@@ -42,10 +42,10 @@ public partial class EncounterTests
         $"[boards.{id}]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\nname = \"{id}\"\ntactic = \"{tactic}\"\n" +
         (prm.Length > 0 ? $"[boards.{id}.params]\n{prm}\n" : "");
 
-    static Race Build(string boards, bool giveWay = true, string rules = "", string course = "", ulong? seed = null)
+    static Race Build(string boards, bool giveWay = true, string rules = "", string course = "", ulong? seed = null, double kn = Kn)
     {
         course = course.Length > 0 ? course : "[course]\nkind = \"waypoints\"\norder = \"far\"\n[course.marks.far]\nx_m = 0\ny_m = 30000\n";
-        var setup = EngineTestKit.Parse(EngineTestKit.SteadyWind(Kn) + "[race]\nfalls = false\ncountdown_s = 20\ntime_limit_s = 600\n" +
+        var setup = EngineTestKit.Parse(EngineTestKit.SteadyWind(kn) + "[race]\nfalls = false\ncountdown_s = 20\ntime_limit_s = 600\n" +
             $"[rules]\ngive_way = {(giveWay ? "true" : "false")}\n{rules}" + course + boards, seed, tactics: Tactics);
         return new Race(setup, tactics: Tactics);
     }
