@@ -185,8 +185,10 @@ public static class StartPlanner
         var ab = line.B - line.A;
         double len = Math.Max(ab.Length, 1e-9), u = Vec2.Dot(p - line.A, ab) / (len * len), room = EndRoomM / len;
         double outward = Vec2.Dot(dir, ab);
+        // Returning after the signal, the board sails back to its holding point instead (luffing there it would stay).
         if ((u < room && outward < 0) || (u > 1 - room && outward > 0))
-            return (Unit.WrapRadPi(Unit.DegToRad(from) - tack * Unit.DegToRad(HoldTwaDeg)), 0);
+            return c.Time < 0 ? (Unit.WrapRadPi(Unit.DegToRad(from) - tack * Unit.DegToRad(HoldTwaDeg)), 0)
+                : (Navigation.LegHeading(c.Fleet.Polars[b], p, wait, tws, from, tack, true), ApproachPower);
         if (Vec2.Dot(dir, line.Normal) < -0.3) return (h, BackOffPower);
         return (Navigation.LegHeading(c.Fleet.Polars[b], p, wait, tws, from, tack, true), ApproachPower);
     }
