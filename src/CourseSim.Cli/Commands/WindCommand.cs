@@ -37,7 +37,7 @@ public static class WindCommand
         var settings = WindFile.From(f);
         // The race's wind field is WindField(settings, race seed) (RaceContext), so without --seed this is the wind the
         // scenario's races sail.
-        ulong seed = seedOption ?? (ulong)f.Number("race.seed");
+        ulong seed = ScenarioFile.SeedOf(f, seedOption);
         string name = f.Text("name") is { Length: > 0 } n ? n : Path.GetFileNameWithoutExtension(path);
         var field = new WindField(settings, seed);
         var (t, sp, dir) = WindStatistics.Series(field, x, y, duration);

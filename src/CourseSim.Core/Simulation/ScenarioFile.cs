@@ -57,6 +57,9 @@ public static class ScenarioFile
     public static RaceSetup LoadRace(string path, IEnumerable<string>? overrides = null, ulong? seed = null, TacticRegistry? tactics = null)
         => FromSettings(Load(path, overrides), seed, tactics);
 
+    /// <summary>The seed a scenario's races sail with (and so their wind field): the one given, else `race.seed`.</summary>
+    public static ulong SeedOf(SettingsFile f, ulong? given = null) => given ?? (ulong)f.Number("race.seed");
+
     /// <summary>
     /// The race a scenario file describes. Tactic names are checked against <paramref name="tactics"/> (default: the
     /// built-in ones) with the scenario's own assemblies loaded into it; a race of the result must be built with the
@@ -80,7 +83,7 @@ public static class ScenarioFile
             Falls = f.Flag("race.falls"),
             Pumping = f.Flag("race.pumping"),
             StartTimeUtc = DateTime.SpecifyKind(start, DateTimeKind.Utc),
-            Seed = seed ?? (ulong)f.Number("race.seed"),
+            Seed = SeedOf(f, seed),
         };
         if (race.RecordIntervalS < 1 / race.StepHz) throw f.ErrorAt("race.record_interval_s", $"must be at least one step (1/{race.StepHz} s)");
         var course = CourseBuilder.Build(f, wind.DirectionDeg);
