@@ -155,38 +155,73 @@ public static class Judge
     /// callers only use the gap when it falls short of the clearance they want).
     /// </summary>
     public static double PredictedHullGap(RaceContext c, int a, double h, double sinH, double cosH, double v, int b, double below = double.PositiveInfinity, double horizonS = 6)
+        => new GapProbe(c, a, h, sinH, cosH, v).Gap(c, b, below, horizonS);
+
+    /// <summary>
+    /// What <see cref="PredictedHullGap"/> works out once for board a making good track h at v (its turn onto h, its
+    /// heading's unit vector), shared by every board it is checked against: a candidate course is vetted against
+    /// several boards. Same arithmetic, in the same order, as computing it afresh for each (the results are the same bits).
+    /// </summary>
+    public readonly struct GapProbe
     {
-        var s = c.Snapshot;
-        double la = c.Fleet.LengthM[a], lb = c.Fleet.LengthM[b], accB = c.LookoutAccel[b];
-        var fa = Vec2.FromBearing(Unit.RadToDeg(h));
-        double fbx = s.HeadX[b], fby = s.HeadY[b];
-        double sb = s.TrackSin[b], cb = s.TrackCos[b];
-        // The turn onto h takes time (a slow board turns at the rate the rig can steer it, a fast one carves quicker;
-        // model value 20 + 8 deg/s per m/s, at most 70 deg/s): until it is made, a moves along the bisector.
-        double turn = Unit.WrapRadPi(h - s.Track[a]);
-        double turnS = Math.Abs(Unit.RadToDeg(turn)) / Math.Clamp(20 + 8 * s.Speed[a], 20, Tuning.MaxYawDegPerS);
-        double mid = s.Track[a] + 0.5 * turn, sm = Math.Sin(mid), cm = Math.Cos(mid), vNow = Math.Max(s.Speed[a], 0.5);
-        double halves = 0.5 * (la + lb);
-        double ka = 0.5 * la, kb = 0.5 * lb;
-        double gap = double.PositiveInfinity;
-        int samples = (int)Math.Round(2 * Math.Min(horizonS, 6));
-        for (int i = 0; i <= samples; i++)
+        readonly double _ax, _ay, _sinH, _cosH, _v, _vNow, _sm, _cm, _turnS, _la, _fax, _fay, _reach;
+
+        public GapProbe(RaceContext c, int a, double h, double sinH, double cosH, double v)
         {
-            double tau = 0.5 * i;
-            double db = Math.Max(0, s.Speed[b] * tau + 0.5 * accB * tau * tau); // b's run along its track, with its acceleration
-            double inTurn = Math.Min(tau, turnS), after = tau - inTurn;
-            double ax = s.X[a] + vNow * inTurn * sm + v * after * sinH, ay = s.Y[a] + vNow * inTurn * cm + v * after * cosH;
-            double bx = s.X[b] + db * sb, by = s.Y[b] + db * cb;
-            // No hull point is nearer than the centres' distance less the half lengths.
-            double cx = bx - ax, cy = by - ay;
-            if (Math.Sqrt(cx * cx + cy * cy) - halves >= below) continue;
-            // The hulls as stern-to-bow segments (the arithmetic of RuleBoard.Stern and Bow).
-            var ca = new Vec2(ax, ay); var cbv = new Vec2(bx, by);
-            var p1 = ca - ka * fa; var q1 = ca + ka * fa;
-            var fbv = new Vec2(fbx, fby);
-            var p2 = cbv - kb * fbv; var q2 = cbv + kb * fbv;
-            gap = Math.Min(gap, RightOfWay.SegmentDistance(p1, q1, p2, q2));
+            var s = c.Snapshot;
+            _ax = s.X[a]; _ay = s.Y[a]; _sinH = sinH; _cosH = cosH; _v = v;
+            _la = c.Fleet.LengthM[a];
+            var fa = Vec2.FromBearing(Unit.RadToDeg(h));
+            _fax = fa.X; _fay = fa.Y;
+            // The turn onto h takes time (a slow board turns at the rate the rig can steer it, a fast one carves quicker;
+            // model value 20 + 8 deg/s per m/s, at most 70 deg/s): until it is made, a moves along the bisector.
+            double turn = Unit.WrapRadPi(h - s.Track[a]);
+            _turnS = Math.Abs(Unit.RadToDeg(turn)) / Math.Clamp(20 + 8 * s.Speed[a], 20, Tuning.MaxYawDegPerS);
+            double mid = s.Track[a] + 0.5 * turn;
+            _sm = Math.Sin(mid); _cm = Math.Cos(mid); _vNow = Math.Max(s.Speed[a], 0.5);
+            // The farthest a moves from where it is over the longest horizon (6 s), m: its speed is at most the larger of the two.
+            _reach = Math.Max(_vNow, Math.Abs(v)) * 6;
         }
-        return gap;
+
+        /// <summary>The hull gap to board b (<see cref="PredictedHullGap"/>).</summary>
+        public double Gap(RaceContext c, int b, double below = double.PositiveInfinity, double horizonS = 6)
+        {
+            var s = c.Snapshot;
+            double lb = c.Fleet.LengthM[b], accB = c.LookoutAccel[b];
+            double sb = s.TrackSin[b], cb = s.TrackCos[b];
+            double halves = 0.5 * (_la + lb);
+            double bx0 = s.X[b], by0 = s.Y[b], speedB = s.Speed[b];
+            // Whole look-ahead at once: when the centres are now farther apart than both boards can close in 6 s (a at
+            // most its reach, b at its speed and acceleration) plus the half lengths and the gap asked about, with a
+            // margin far above rounding, no sample below would be worked out; the answer is the same +infinity.
+            {
+                double rx = bx0 - _ax, ry = by0 - _ay;
+                double runB = Math.Abs(speedB) * 6 + 0.5 * Math.Abs(accB) * 36;
+                double need = below + halves + _reach + runB + 1e-6;
+                if (need >= 0 && rx * rx + ry * ry > need * need * (1 + 1e-9)) return double.PositiveInfinity;
+            }
+            double ka = 0.5 * _la, kb = 0.5 * lb;
+            double gap = double.PositiveInfinity;
+            int samples = (int)Math.Round(2 * Math.Min(horizonS, 6));
+            for (int i = 0; i <= samples; i++)
+            {
+                double tau = 0.5 * i;
+                double db = Math.Max(0, speedB * tau + 0.5 * accB * tau * tau); // b's run along its track, with its acceleration
+                double inTurn = Math.Min(tau, _turnS), after = tau - inTurn;
+                double ax = _ax + _vNow * inTurn * _sm + _v * after * _sinH, ay = _ay + _vNow * inTurn * _cm + _v * after * _cosH;
+                double bx = bx0 + db * sb, by = by0 + db * cb;
+                // No hull point is nearer than the centres' distance less the half lengths.
+                double cx = bx - ax, cy = by - ay;
+                if (Math.Sqrt(cx * cx + cy * cy) - halves >= below) continue;
+                // The hulls as stern-to-bow segments (the arithmetic of RuleBoard.Stern and Bow).
+                var ca = new Vec2(ax, ay); var cbv = new Vec2(bx, by);
+                var fa = new Vec2(_fax, _fay);
+                var p1 = ca - ka * fa; var q1 = ca + ka * fa;
+                var fbv = new Vec2(s.HeadX[b], s.HeadY[b]);
+                var p2 = cbv - kb * fbv; var q2 = cbv + kb * fbv;
+                gap = Math.Min(gap, RightOfWay.SegmentDistance(p1, q1, p2, q2));
+            }
+            return gap;
+        }
     }
 }

@@ -99,6 +99,7 @@ public sealed class Lookout : RaceSystem
         _threats.Clear();
         var s = c.Snapshot;
         double sinH = Math.Sin(h), cosH = Math.Cos(h);
+        var probe = gybing ? new Judge.GapProbe(c, k, h, sinH, cosH, v) : default;
         foreach (int j in c.Grid.Neighbours(k))
         {
             long key = RaceContext.PairKey(k, j);
@@ -116,14 +117,14 @@ public sealed class Lookout : RaceSystem
             // the centres' closest approach: a board alongside that the gybe leads away from is no reason to put it off
             // (two boards running side by side would otherwise each block the other's gybe: issue 12).
             // A gybe that crosses another board's course goes ahead only with a wide gap all through it.
-            if (gybing && Judge.PredictedHullGap(c, k, h, sinH, cosH, v, j, GybeCrossM) >= GybeCrossM) continue;
+            if (gybing && probe.Gap(c, j, GybeCrossM) >= GybeCrossM) continue;
             if (gybing && Opening(s, k, sinH, cosH, v, j))
             {
                 // The gap a gybe leading away must keep: the clearance, or what there is now when the boards are closer.
                 double now = RightOfWay.HullDistance(new RuleBoard(s.X[k], s.Y[k], Unit.RadToDeg(s.Heading[k]), c.Fleet.LengthM[k]),
                                                      new RuleBoard(s.X[j], s.Y[j], Unit.RadToDeg(s.Heading[j]), c.Fleet.LengthM[j]));
                 double need = Math.Min(GybeClearM, now - 0.3);
-                if (now >= GybeMinGapM && Judge.PredictedHullGap(c, k, h, sinH, cosH, v, j, need) >= need) continue;
+                if (now >= GybeMinGapM && probe.Gap(c, j, need) >= need) continue;
             }
             bool mine = keep == k || turning && keep >= 0;
             bool lastMoment = keep == j && t < LastMomentS && !s.KeepingClear[j];
@@ -232,19 +233,34 @@ public sealed class Lookout : RaceSystem
                 // Luffing, a board coasts to a stop over a few seconds (mean speed over the next three seconds about 60 %
                 // of the present one); sheeting out on a run hardly slows it (model values).
                 double v = tack ? TackAwaySpeedShare * va : gybe ? GybeAwaySpeedShare * va : slow == 1 ? (Math.Abs(twa) < Unit.DegToRad(110) ? 0.6 : 0.85) * s.Speed[k] : va;
+                // The score is the charges below plus a shortfall term that is never negative: a candidate whose charges
+                // alone do not beat the best so far is not vetted at all, and the vetting stops as soon as the shortfall
+                // found so far puts it out of reach (the same choice as scoring every candidate in full: the sums are
+                // monotone in the shortfall term, so the same bits).
+                double lead = (tack ? 0 : Math.Abs(off)) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (tack ? TackAwayCharge : 0);
+                double duck = oi == 17 ? DuckPreference : 0;
+                bool kept = gw.On && (slow == 1) == (gw.Power == 0) && Math.Abs(Unit.WrapRadPi(h - gw.Heading)) < Unit.DegToRad(6);
+                if (Score(lead, duck, kept, double.PositiveInfinity) >= bestScore) continue;
                 // Only a shortfall of clearance counts in the score, so each gap need be exact only below the clearance.
                 double worst = double.PositiveInfinity, sinH = Math.Sin(h), cosH = Math.Cos(h);
+                var probe = new Judge.GapProbe(c, k, h, sinH, cosH, v);
                 foreach (int j in other ? neighbours : System.Runtime.InteropServices.CollectionsMarshal.AsSpan(_threats))
                 {
                     double clear = Judge.PassClear(s, sinH, cosH, v, j);
-                    worst = Math.Min(worst, Judge.PredictedHullGap(c, k, h, sinH, cosH, v, j, clear) - clear);
+                    worst = Math.Min(worst, probe.Gap(c, j, clear) - clear);
+                    if (worst < 0 && Score(lead, duck, kept, worst) >= bestScore) break;
                 }
-                double score = (tack ? 0 : Math.Abs(off)) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (tack ? TackAwayCharge : 0)
-                             + (worst < 0 ? 200 - 80 * worst : 0) - (oi == 17 ? DuckPreference : 0);
-                if (gw.On && (slow == 1) == (gw.Power == 0) && Math.Abs(Unit.WrapRadPi(h - gw.Heading)) < Unit.DegToRad(6)) score -= 15;
+                double score = Score(lead, duck, kept, worst);
                 if (score < bestScore) { bestScore = score; bestH = h; bestP = slow == 1 ? 0 : 1; }
             }
         return (bestH, bestP);
+    }
+
+    /// <summary>A candidate's score: its charges, the shortfall of clearance (worst, m, counted only below zero), the duck's preference and the bonus for the way already chosen.</summary>
+    static double Score(double lead, double duck, bool kept, double worst)
+    {
+        double sc = lead + (worst < 0 ? 200 - 80 * worst : 0) - duck;
+        return kept ? sc - 15 : sc;
     }
 
     /// <summary>
@@ -258,15 +274,16 @@ public sealed class Lookout : RaceSystem
         double cur = s.Track[k];
         if (Math.Abs(Unit.WrapRadPi(h - cur)) < Unit.DegToRad(Judge.AlterDeg) * 0.5) return -1;
         double v = Math.Max(s.Speed[k], 1.0), sinH = Math.Sin(h), cosH = Math.Cos(h), sinC = Math.Sin(cur), cosC = Math.Cos(cur);
+        var onH = new Judge.GapProbe(c, k, h, sinH, cosH, v); var onCur = new Judge.GapProbe(c, k, cur, sinC, cosC, v);
         foreach (int j in c.Grid.Neighbours(k))
         {
             var (keep, rule) = Judge.Decide(c, k, h, j);
             if (keep != j || rule is not (10 or 11 or 12)) continue;
             double win = Judge.RoomWindowS(c, j);
             double clear = Judge.PassClear(s, sinH, cosH, v, j);
-            if (Judge.PredictedHullGap(c, k, h, sinH, cosH, v, j, clear, win) >= clear) continue;
+            if (onH.Gap(c, j, clear, win) >= clear) continue;
             double clearNow = Judge.PassClear(s, sinC, cosC, v, j);
-            if (Judge.PredictedHullGap(c, k, cur, sinC, cosC, v, j, clearNow, win) < clearNow) continue; // not the change's doing
+            if (onCur.Gap(c, j, clearNow, win) < clearNow) continue; // not the change's doing
             return j;
         }
         return -1;
