@@ -41,6 +41,9 @@ public sealed class DecideSystem : RaceSystem
     public override string Reads => "Pose, Motion, SensedWind, Trim (planing), Perception, RaceStatus, ManoeuvreState, Penalty, GiveWay; snapshot (boards in sight); grid (nearest)";
     public override string Writes => "Helm, Intent, StartPlan, Perception.LastTurnS, Penalty (serving), events";
 
+    /// <summary>The boards in sight come from a hash of the step snapshot, built at the step's first look.</summary>
+    public override void Prepare(RaceContext c) => _look.Prepare();
+
     public override void RunBoards(RaceContext c, ref BoardBlock blk)
     {
         for (int i = 0; i < blk.Count; i++)

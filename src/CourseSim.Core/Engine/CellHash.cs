@@ -1,0 +1,60 @@
+namespace CourseSim.Engine;
+
+/// <summary>
+/// The boards of a step snapshot in square cells hashed into about twice as many buckets as boards, filled by counting
+/// sort: O(N) to build however far the fleet spreads, no allocation once sized, each bucket in the canonical board order
+/// (<see cref="Fleet.ByRank"/>). A look-up walks the buckets of the 3 x 3 cells round a point, so every board within
+/// one cell size of it is found (and some farther ones: the caller checks the distance). The neighbour grid's cells are
+/// the lookout range; the riders' sight uses the same structure with cells of the sight range.
+/// </summary>
+public sealed class CellHash
+{
+    /// <summary>A board in bucket order, with its cell (a bucket may hold several cells).</summary>
+    public readonly record struct Entry(int Board, int Ci, int Cj);
+
+    readonly double _cellM;
+    int[] _bucketStart = [], _fill = [];
+    Entry[] _sorted = [];
+    int[] _ci = [], _cj = [];
+    int _mask;
+
+    public CellHash(double cellM) { _cellM = cellM; }
+
+    public double CellM => _cellM;
+
+    public static int Hash(int i, int j, int mask) => (int)(((uint)i * 0x9E3779B1u) ^ ((uint)j * 0x85EBCA77u)) & mask;
+    public int Cell(double v) => (int)Math.Floor(Math.Clamp(v / _cellM, -1e9, 1e9));
+
+    /// <summary>Rebuilds from the snapshot's live boards, put in in canonical order.</summary>
+    public void Build(StepSnapshot s, int[] byRank)
+    {
+        int n = byRank.Length;
+        int buckets = 64;
+        while (buckets < 2 * n) buckets *= 2;
+        _mask = buckets - 1;
+        if (_bucketStart.Length < buckets + 1) { _bucketStart = new int[buckets + 1]; _fill = new int[buckets]; }
+        else Array.Clear(_bucketStart, 0, buckets + 1);
+        if (_sorted.Length < n) { _sorted = new Entry[n]; _ci = new int[n]; _cj = new int[n]; }
+        for (int r = 0; r < n; r++)
+        {
+            int b = byRank[r];
+            if (!s.Live[b]) continue;
+            _ci[b] = Cell(s.X[b]); _cj[b] = Cell(s.Y[b]);
+            _bucketStart[Hash(_ci[b], _cj[b], _mask) + 1]++;
+        }
+        for (int k = 0; k < buckets; k++) _bucketStart[k + 1] += _bucketStart[k];
+        Array.Copy(_bucketStart, _fill, buckets);
+        for (int r = 0; r < n; r++)
+        {
+            int b = byRank[r];
+            if (s.Live[b]) _sorted[_fill[Hash(_ci[b], _cj[b], _mask)]++] = new Entry(b, _ci[b], _cj[b]);
+        }
+    }
+
+    /// <summary>The entries of the bucket holding cell (ci, cj): the caller skips those whose cell is another.</summary>
+    public ReadOnlySpan<Entry> Bucket(int ci, int cj)
+    {
+        int h = Hash(ci, cj, _mask);
+        return new(_sorted, _bucketStart[h], _bucketStart[h + 1] - _bucketStart[h]);
+    }
+}
