@@ -14,6 +14,8 @@ namespace CourseSim.Benchmarks;
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- report-batch [--races N] [--threads T]   (N = 1000: the full batch)
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- race-loop [RACES]   (the 40-board demo raced again and
 ///       again on one thread after a warm-up race, for a profiler: DOTNET_PerfMapEnabled=1 perf record -g -p PID)
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- scale-quick [N] [S]   (N boards and 40 to +S s, per system)
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- alloc-by-system   (bytes each system allocates in the steady stretch)
 /// Figures are printed, never asserted in tests (see DEVELOPERS.md).
 /// </summary>
 public static class Program
@@ -40,9 +42,46 @@ public static class Program
         return 0;
     }
 
+    /// <summary>Where the steady stretch's bytes go: the 40-board demo to +60 s, then 4,000 steps with the per-system clock and byte counts on.</summary>
+    static int AllocBySystem()
+    {
+        var rigs = new CourseSim.Equilibrium.RigCache();
+        var race = new Race(Demo.Fleet40(), rigs.For);
+        while (!race.IsOver && race.Time < 60) race.Step();
+        var t = new CourseSim.Engine.SystemTimings();
+        race.Timings = t;
+        long a0 = GC.GetAllocatedBytesForCurrentThread();
+        int e0 = race.Events.Count + race.Incidents.Count;
+        for (int i = 0; i < 4000 && !race.IsOver; i++) race.Step();
+        Console.WriteLine($"alloc-by-system: +60 s then 4,000 steps: {GC.GetAllocatedBytesForCurrentThread() - a0} B in all, {race.Events.Count + race.Incidents.Count - e0} events/incidents");
+        for (int i = 0; i < t.Names.Length; i++) Console.WriteLine($"  {t.Names[i],-20} {t.Bytes[i],10} B");
+        return 0;
+    }
+
+    /// <summary>A quick look at the scaling: N boards (default 2,000) and 40 from the countdown to +S s (default 30), per system, thread CPU.</summary>
+    static int ScaleQuick(string[] args)
+    {
+        int big = args.Length > 1 ? int.Parse(args[1], System.Globalization.CultureInfo.InvariantCulture) : 2000;
+        double after = args.Length > 2 ? double.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture) : 30;
+        var rigs = new CourseSim.Equilibrium.RigCache();
+        var demo = Demo.Fleet40();
+        RaceReport.RunScaledWindow(demo, 40, 9, after, rigs); // warm-up (rig rows, JIT)
+        foreach (int n in new[] { 40, big })
+        {
+            var t = new CourseSim.Engine.SystemTimings();
+            var run = RaceReport.RunScaledWindow(demo, n, 9, after, rigs, t);
+            double sum = Enumerable.Range(0, t.Names.Length).Sum(i => t.NsPerBoardStep(i, n));
+            Console.WriteLine($"{n} boards, countdown to +{after} s: {run.TotalNsPerBoardStep:F0} ns/board-step CPU (countdown {run.NsPerBoardStep(0):F0}, first minute {run.NsPerBoardStep(1):F0}); by system (share of the wall-clock sum):");
+            for (int i = 0; i < t.Names.Length; i++) Console.WriteLine($"  {t.Names[i],-20} {100 * t.NsPerBoardStep(i, n) / sum,5:F1} %  {t.NsPerBoardStep(i, n) / sum * run.TotalNsPerBoardStep,8:F0} ns");
+        }
+        return 0;
+    }
+
     public static int Main(string[] args)
     {
+        if (args.Length >= 1 && args[0] == "scale-quick") return ScaleQuick(args);
         if (args.Length >= 1 && args[0] == "race-loop") return RaceLoop(args);
+        if (args.Length >= 1 && args[0] == "alloc-by-system") return AllocBySystem();
         if (args.Length == 0 || (args[0] != "report" && args[0] != "report-batch"))
         {
             BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);

@@ -90,7 +90,7 @@ public static class RaceReport
     }
 
     /// <summary>A scaled fleet from the countdown to <paramref name="after"/> s after the signal; phases: countdown, first minute, after.</summary>
-    static RaceRun RunScaledWindow(RaceSetup demo, int boards, double mPerBoard, double after, RigCache cache, SystemTimings? timings = null)
+    public static RaceRun RunScaledWindow(RaceSetup demo, int boards, double mPerBoard, double after, RigCache cache, SystemTimings? timings = null)
     {
         double line = Math.Clamp(mPerBoard * boards, 20, 10000);
         // The time limit only bounds the recorder's up-front room (it is sized to the race's length).

@@ -159,7 +159,7 @@ public sealed class DecideSystem : RaceSystem
         double up = Unit.RadToDeg(rig.BestTwa(tws, true)), down = Unit.RadToDeg(rig.BestTwa(tws, false));
         o.Leg = direct < up ? LegKind.Beat : direct > down && (aim - pl).Length > Navigation.CloseRunM ? LegKind.Run : LegKind.Reach;
         var tactic = _tactics[b];
-        o.Nearby = tactic.WantsNearby ? _look.From(c, b, p) : [];
+        if (tactic.WantsNearby) o.NearbyFrom(_look, c); else o.ClearNearby();
         _nav.Set(rig, pl, tws, from, o.Tack);
         return tactic.Decide(o, _nav);
     }

@@ -48,7 +48,24 @@ public sealed class Observation
     /// <summary>Time of the rider's last tack or gybe, s (negative infinity before the first).</summary>
     public double LastTurnS { get; internal set; }
     /// <summary>Boards within sight range, nearest first; empty unless the tactic's <see cref="ITactic.WantsNearby"/> is true.</summary>
-    public IReadOnlyList<SeenBoard> Nearby { get; internal set; } = [];
+    /// <remarks>Worked out on first read in a decision (a tactic that returns before looking costs nothing).</remarks>
+    public IReadOnlyList<SeenBoard> Nearby
+    {
+        get
+        {
+            if (_look is { } look) { _look = null; _nearby = look.From(_lookRace!, Board, Position); }
+            return _nearby;
+        }
+    }
+    IReadOnlyList<SeenBoard> _nearby = [];
+    Lookabout? _look;
+    Engine.RaceContext? _lookRace;
+
+    /// <summary>No boards in sight (a tactic that does not ask for them).</summary>
+    internal void ClearNearby() { _look = null; _lookRace = null; _nearby = []; }
+
+    /// <summary>The boards in sight of <see cref="Board"/> at <see cref="Position"/>, looked up when first read.</summary>
+    internal void NearbyFrom(Lookabout look, Engine.RaceContext c) { _look = look; _lookRace = c; }
     /// <summary>The boards' names in fleet order (for naming a rival).</summary>
     public IReadOnlyList<string> FleetNames { get; internal set; } = [];
 }
