@@ -9,13 +9,16 @@ namespace CourseSim.Engine;
 /// </summary>
 public sealed class CellHash
 {
-    /// <summary>A board in bucket order, with its cell (a bucket may hold several cells).</summary>
-    public readonly record struct Entry(int Board, int Ci, int Cj);
+    /// <summary>A board in bucket order, with its rank in the canonical order, its cell (a bucket may hold several cells) and position (packed so a look-up walks contiguous memory).</summary>
+    public readonly record struct Entry(int Board, int Rank, int Ci, int Cj, double X, double Y);
 
     readonly double _cellM;
     int[] _bucketStart = [], _fill = [];
     Entry[] _sorted = [];
     int[] _ci = [], _cj = [];
+    /// <summary>The cell of board b at the last build (live boards only).</summary>
+    public int CellI(int b) => _ci[b];
+    public int CellJ(int b) => _cj[b];
     int _mask;
 
     public CellHash(double cellM) { _cellM = cellM; }
@@ -23,6 +26,7 @@ public sealed class CellHash
     public double CellM => _cellM;
 
     public static int Hash(int i, int j, int mask) => (int)(((uint)i * 0x9E3779B1u) ^ ((uint)j * 0x85EBCA77u)) & mask;
+    /// <summary>The cell index of a coordinate (m).</summary>
     public int Cell(double v) => (int)Math.Floor(Math.Clamp(v / _cellM, -1e9, 1e9));
 
     /// <summary>Rebuilds from the snapshot's live boards, put in in canonical order.</summary>
@@ -47,7 +51,7 @@ public sealed class CellHash
         for (int r = 0; r < n; r++)
         {
             int b = byRank[r];
-            if (s.Live[b]) _sorted[_fill[Hash(_ci[b], _cj[b], _mask)]++] = new Entry(b, _ci[b], _cj[b]);
+            if (s.Live[b]) _sorted[_fill[Hash(_ci[b], _cj[b], _mask)]++] = new Entry(b, r, _ci[b], _cj[b], s.X[b], s.Y[b]);
         }
     }
 
