@@ -2,7 +2,6 @@ using System.Numerics;
 using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using CourseSim.Random;
-using MathNet.Numerics.IntegralTransforms;
 
 namespace CourseSim.Wind;
 
@@ -57,6 +56,17 @@ public sealed class GustTile
         double held = 0, grid = 0;
         var h = new double[hi + 1];                            // bilinear interpolation's amplitude response per index
         for (int i = 0; i <= hi; i++) { double x = Math.PI * i / size; h[i] = i == 0 ? 1 : Math.Pow(Math.Sin(x) / x, 2); }
+        // The spectrum and the amplitude depend on |fi| and |fj| only (and symmetrically): worked out once per pair.
+        int m = hi + 1;
+        var spec = new double[m * m]; var amps = new double[m * m];
+        for (int a = 0; a <= hi; a++)
+            for (int b = a; b <= hi; b++)
+            {
+                double sp = Math.Pow(1 + (a * a + b * b) * dkl * dkl, -4.0 / 3.0);
+                double am = Math.Sqrt(sp) / (h[a] * h[b]);
+                spec[a * m + b] = spec[b * m + a] = sp;
+                amps[a * m + b] = amps[b * m + a] = am;
+            }
         for (int fi = -hi; fi <= hi; fi++)
         {
             int i = fi < 0 ? fi + size : fi;
@@ -64,28 +74,32 @@ public sealed class GustTile
             {
                 if (Math.Max(Math.Abs(fi), Math.Abs(fj)) <= lo) continue;
                 int j = fj < 0 ? fj + size : fj;
-                double s = Math.Pow(1 + (fi * fi + fj * fj) * dkl * dkl, -4.0 / 3.0);
-                double amp = Math.Sqrt(s) / (h[Math.Abs(fi)] * h[Math.Abs(fj)]);
+                double s = spec[Math.Abs(fi) * m + Math.Abs(fj)];
+                double amp = amps[Math.Abs(fi) * m + Math.Abs(fj)];
                 held += s; grid += amp * amp;
                 var (re, im) = rng.NormalPair((ulong)(i * size + j));
                 c[i * size + j] = new Complex(amp * re, amp * im);
             }
         }
-        // 2-D inverse FFT as rows then columns (MathNet's managed provider has no multi-dimensional transform); the rows
-        // beyond the band are zero and stay so.
-        var line = new Complex[size];
+        // 2-D inverse FFT as rows then columns (InverseFft: the arithmetic of MathNet's managed radix-2 transform with the
+        // twiddles worked out once); the rows beyond the band are zero and stay so.
+        var fft = new InverseFft(size);
         for (int fi = -hi; fi <= hi; fi++)
         {
             int i = fi < 0 ? fi + size : fi;
-            Array.Copy(c, i * size, line, 0, size);
-            Fourier.Inverse(line, FourierOptions.Matlab);
-            Array.Copy(line, 0, c, i * size, size);
+            fft.Transform(c.AsSpan(i * size, size));
         }
-        for (int j = 0; j < size; j++)
+        // Columns eight at a time: each row read brings eight neighbouring values (two cache lines), not one.
+        const int Block = 8;
+        var cols = new Complex[Block * size];
+        for (int j0 = 0; j0 < size; j0 += Block)
         {
-            for (int i = 0; i < size; i++) line[i] = c[i * size + j];
-            Fourier.Inverse(line, FourierOptions.Matlab);
-            for (int i = 0; i < size; i++) c[i * size + j] = line[i];
+            int nb = Math.Min(Block, size - j0);
+            for (int i = 0; i < size; i++)
+                for (int q = 0; q < nb; q++) cols[q * size + i] = c[i * size + j0 + q];
+            for (int q = 0; q < nb; q++) fft.Transform(cols.AsSpan(q * size, size));
+            for (int i = 0; i < size; i++)
+                for (int q = 0; q < nb; q++) c[i * size + j0 + q] = cols[q * size + i];
         }
         // The spectrum integrates to 3 pi / l^2 over the plane: the band holds held (dk l)^2 / (3 pi) of the unit variance.
         // Each tile is scaled so that, after the interpolation's loss, its variance is the band's: the grid values carry
