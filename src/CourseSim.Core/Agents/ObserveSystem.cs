@@ -42,7 +42,7 @@ public sealed class Lookabout
 {
     /// <summary>How far a rider can see other boards and read the wind on the water, m (model value).</summary>
     public const double SightRangeM = 1000;
-    readonly List<SeenBoard> _seen = new();
+    readonly List<SeenBoard> _seen;
     readonly int[] _rank;
     // The boards in sight come from a hash of sight-range cells built from the step snapshot (the 3 x 3 cells round a
     // rider hold everything within sight; cells a little larger than the range so no rounding of a cell index can leave
@@ -58,6 +58,7 @@ public sealed class Lookabout
     public Lookabout(Fleet fleet)
     {
         _rank = fleet.Rank;
+        _seen = new List<SeenBoard>(Math.Max(4, fleet.Count)); // room for the whole fleet: a look never grows it
         _key = new long[Math.Max(1, fleet.Count)]; _nearRank = new int[Math.Max(1, fleet.Count)];
     }
 
