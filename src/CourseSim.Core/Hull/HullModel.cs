@@ -47,6 +47,8 @@ public sealed class HullModel
     public double PlaningBeamM { get; }
     public double RestingWettedAreaM2 { get; }
     readonly double _rho, _nu, _g;
+    // sqrt(g cbrt(displacement)): the speed of volume Froude number 1, m/s (fixed by the set-up; worked out once, not per call).
+    readonly double _froudeSpeed;
     readonly HullState[] _table;
     // Resistance and lift fraction only, in single precision: the race step's compact copy (stays in cache).
     readonly float[] _fast;
@@ -61,6 +63,7 @@ public sealed class HullModel
         _rho = density; _nu = kinematicViscosity; _g = gravity;
         WeightN = totalMassKg * gravity;
         DisplacementM3 = totalMassKg / density;
+        _froudeSpeed = Math.Sqrt(_g * Math.Cbrt(DisplacementM3));
         PlaningBeamM = PlaningBeamFraction * spec.WidthCm / 100.0;
         // Resting wetted area: bottom planform about 0.7 of length x width, plus the rails.
         RestingWettedAreaM2 = 0.7 * spec.LengthM * spec.WidthCm / 100.0 * 1.1;
@@ -72,7 +75,7 @@ public sealed class HullModel
     }
 
     /// <summary>Volume Froude number at speed V (m/s).</summary>
-    public double VolumeFroude(double speed) => speed / Math.Sqrt(_g * Math.Cbrt(DisplacementM3));
+    public double VolumeFroude(double speed) => speed / _froudeSpeed;
 
     static double SmootherStep(double x)
     {
@@ -88,7 +91,7 @@ public sealed class HullModel
     public bool IsPlaning(double speed, bool wasPlaning) => VolumeFroude(speed) >= (wasPlaning ? DropOffFroude : PlaningFroude);
 
     /// <summary>Speed (m/s) at volume Froude number <paramref name="fnv"/>.</summary>
-    public double SpeedAtFroude(double fnv) => fnv * Math.Sqrt(_g * Math.Cbrt(DisplacementM3));
+    public double SpeedAtFroude(double fnv) => fnv * _froudeSpeed;
 
     /// <summary>Savitsky's planing drag at the best trim (2..10 deg) for the full weight, and that trim.</summary>
     public PlaningState BestPlaning(double speed)
