@@ -33,7 +33,10 @@ public sealed record ExperimentSpec(string Name, string Description, string Scen
     public RaceSetup SetupFor(int variant, int race)
     {
         var v = Variants[variant];
-        var setup = v.Setup with { Race = v.Setup.Race with { Seed = SeedFor(variant, race) } };
+        ulong seed = SeedFor(variant, race);
+        // A log-driven wind with random windows: each race's window is drawn by its own seed (so the thread count and
+        // the order races run in change nothing).
+        var setup = v.Setup with { Race = v.Setup.Race with { Seed = seed }, Wind = Wind.WindLogDrive.ForSeed(v.Setup.Wind, seed) };
         double wind = WindFor(race);
         return double.IsNaN(wind) ? setup : setup with { Wind = setup.Wind with { SpeedKn = wind } };
     }

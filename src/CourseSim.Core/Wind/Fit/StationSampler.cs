@@ -30,7 +30,7 @@ public static class StationSampler
                 run += speed[i]; if (i - s >= g) run -= speed[i - g];
                 if (i - s >= g - 1) peak = Math.Max(peak, run / g);
             }
-            rows.Add(new StationRow((double)s / hz, m / w, Unit.WrapDeg360(Unit.RadToDeg(Math.Atan2(sx, sy))), gusts && w >= g ? peak : double.NaN));
+            rows.Add(new StationRow((double)(s + w) / hz, m / w, Unit.WrapDeg360(Unit.RadToDeg(Math.Atan2(sx, sy))), gusts && w >= g ? peak : double.NaN));
         }
         return rows;
     }

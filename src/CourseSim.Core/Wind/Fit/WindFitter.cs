@@ -52,18 +52,21 @@ public static class WindFitter
         int block = Math.Clamp((int)Math.Round(bl / dt), 3, Math.Max(3, ser.Count / 5));
         var rng = new CounterRng(seed, 0xF17_0001);
         var lines = BlockBootstrap(ser, block, 400, rng);
+        var arLines = ArBootstrap(ser, 400, rng.For(999_999));
         double u0 = est.U0, sigU = gustOk ? Math.Sqrt(est.Sigma2U) : double.NaN;
         // The field's speed is |(U + u, v)|: its mean exceeds the along-wind mean U by about sigma_v^2/(2U), with
         // sigma_v = 0.8 sigma_u (IEC 61400-1 ed. 3, annex B; the field's lateral component, docs/wind.md).
-        double lift = gustOk && u0 > 1 ? 0.32 * est.Sigma2U / u0 : 0;
-        var vals = new List<FittedValue>
-        {
-            Interval("speed_kn", Unit.MsToKnots(u0 - lift), lines.Select(l => Unit.MsToKnots(l.A - lift)), true, $"least-squares line, block bootstrap ({block * dt / 60:0} min blocks)", false),
-            Interval("ramp_kn_per_hour", Unit.MsToKnots(est.RampMsPerS) * 3600, lines.Select(l => Unit.MsToKnots(l.B) * 3600), true, "slope of the same line", false),
-            Interval("direction_deg", Unit.WrapDeg360(ser.MeanDirDeg + est.Dir0Deg), lines.Select(l => Unit.WrapDeg360(ser.MeanDirDeg + l.C)), true, "least-squares line of the unwrapped direction, block bootstrap", false, circular: true),
-            Interval("persistent_deg_per_min", est.TrendDegPerS * 60, lines.Select(l => l.E * 60), true, "slope of the direction line", false),
-        };
-        // Spectral parameters: parametric bootstrap from the fitted model through the same station sampling.
+        // Without a resolved spectrum the intensity for this small correction comes from the log's gust factor,
+        // I = (G - 1)/2.5 (a peak factor times sigma_3s/sigma of about 2.5, common practice), else the default 0.12.
+        double gl = StationSampler.GustFactor(log, dt);
+        double iLift = gustOk ? sigU / u0 : double.IsFinite(gl) ? Math.Clamp((gl - 1) / 2.5, 0, 0.4) : new WindSettings().GustIntensity;
+        double lift = u0 > 1 ? 0.32 * iLift * iLift * u0 : 0;
+        // Rows are stamped at the end of their averaging interval: the window starts avg before the first stamp, and a
+        // row's mean belongs to the middle of its interval, so the line is read avg/2 before the first stamp.
+        double back = avg / 2;
+        // Spectral parameters: parametric bootstrap from the fitted model through the same station sampling. Its
+        // replicates also give the lines' spread under the fitted spectrum; each line parameter takes the wider of the
+        // two intervals (the block bootstrap underestimates the variance when a log holds few blocks).
         var boot = new List<WindEstimate>();
         if (!coarse)
         {
@@ -73,6 +76,18 @@ public static class WindFitter
                 progress?.Invoke(r + 1, replicates);
             }
         }
+        string blockHow = $"widest of block bootstrap ({block * dt / 60:0} min blocks), AR(1) residual bootstrap{(coarse ? "" : " and parametric")}";
+        var vals = new List<FittedValue>
+        {
+            Wider3(arLines, l => Unit.MsToKnots(l.A - l.B * back - lift), Interval("speed_kn", Unit.MsToKnots(u0 - est.RampMsPerS * back - lift), lines.Select(l => Unit.MsToKnots(l.A - l.B * back - lift)), true, "least-squares line, " + blockHow, false),
+                Interval("speed_kn", Unit.MsToKnots(u0 - est.RampMsPerS * back - lift), boot.Select(b => Unit.MsToKnots(b.U0 - b.RampMsPerS * back - lift)), true, "", false)),
+            Wider3(arLines, l => Unit.MsToKnots(l.B) * 3600, Interval("ramp_kn_per_hour", Unit.MsToKnots(est.RampMsPerS) * 3600, lines.Select(l => Unit.MsToKnots(l.B) * 3600), true, "slope of the same line", false),
+                Interval("ramp_kn_per_hour", Unit.MsToKnots(est.RampMsPerS) * 3600, boot.Select(b => Unit.MsToKnots(b.RampMsPerS) * 3600), true, "", false)),
+            Wider3(arLines, l => Unit.WrapDeg360(ser.MeanDirDeg + l.C - l.E * back), Interval("direction_deg", Unit.WrapDeg360(ser.MeanDirDeg + est.Dir0Deg - est.TrendDegPerS * back), lines.Select(l => Unit.WrapDeg360(ser.MeanDirDeg + l.C - l.E * back)), true, "least-squares line of the unwrapped direction, " + blockHow, false, circular: true),
+                Interval("direction_deg", Unit.WrapDeg360(ser.MeanDirDeg + est.Dir0Deg - est.TrendDegPerS * back), boot.Select(b => Unit.WrapDeg360(ser.MeanDirDeg + b.Dir0Deg - b.TrendDegPerS * back)), true, "", false, circular: true)),
+            Wider3(arLines, l => l.E * 60, Interval("persistent_deg_per_min", est.TrendDegPerS * 60, lines.Select(l => l.E * 60), true, "slope of the direction line", false),
+                Interval("persistent_deg_per_min", est.TrendDegPerS * 60, boot.Select(b => b.TrendDegPerS * 60), true, "", false)),
+        };
         const string gustHow = "Whittle fit of the station-filtered von Karman spectrum (Welch), parametric bootstrap";
         const string shiftHow = "periodogram of the direction above the gust baseline, parametric bootstrap";
         vals.Add(Interval("shift_amplitude_deg", shiftOk ? est.ShiftAmpDeg : double.NaN, boot.Select(b => b.ShiftAmpDeg), shiftOk, shiftHow, true));
@@ -171,6 +186,55 @@ public static class WindFitter
         for (int i = 0; i < n; i++) { u[i] += est.U0 + est.RampMsPerS * i * dt; d[i] += est.Dir0Deg + est.TrendDegPerS * i * dt; }
         return WindEstimator.Estimate(u, s.OkU, d, s.OkD, dt, avg, est);
     }
+
+    static FittedValue Wider3(List<Lines> ar, Func<Lines, double> of, FittedValue a, FittedValue b)
+    {
+        var w = Wider(a, b);
+        var c = Interval(a.Key, a.Value, ar.Select(of), true, "", false, circular: a.Key == "direction_deg");
+        return Wider(w, c);
+    }
+
+    /// <summary>
+    /// Residual bootstrap with an AR(1) model of each line's residuals (lag-1 autocorrelation phi, innovations of
+    /// variance s^2 (1 - phi^2)): the variance of a line fitted to few, correlated rows (10-min means over a few hours),
+    /// where blocks are too few to carry it.
+    /// </summary>
+    static List<Lines> ArBootstrap(LogSeries s, int reps, CounterRng rng)
+    {
+        double dt = s.Dt; int n = s.Count;
+        var (a, b) = WindEstimator.Line(s.U, s.OkU, dt);
+        var (c, e) = WindEstimator.Line(s.D, s.OkD, dt);
+        var ru = new double[n]; var rd = new double[n];
+        for (int i = 0; i < n; i++) { ru[i] = s.U[i] - a - b * i * dt; rd[i] = s.D[i] - c - e * i * dt; }
+        static (double Phi, double Sd) Ar(double[] r)
+        {
+            double v = WindEstimator.Variance(r), m = r.Average(), c1 = 0;
+            for (int i = 1; i < r.Length; i++) c1 += (r[i] - m) * (r[i - 1] - m);
+            double phi = v > 0 ? Math.Clamp(c1 / (r.Length * v), -0.99, 0.99) : 0;
+            return (phi, Math.Sqrt(v * (1 - phi * phi)));
+        }
+        var (pu, su) = Ar(ru); var (pd, sd) = Ar(rd);
+        var list = new List<Lines>(reps);
+        var yu = new double[n]; var yd = new double[n];
+        for (int r = 0; r < reps; r++)
+        {
+            var g = rng.For((ulong)r);
+            double xu = su / Math.Sqrt(1 - pu * pu) * g.Normal(0), xd = sd / Math.Sqrt(1 - pd * pd) * g.Normal(1);
+            for (int i = 0; i < n; i++)
+            {
+                if (i > 0) { xu = pu * xu + su * g.Normal((ulong)(2 * i + 2)); xd = pd * xd + sd * g.Normal((ulong)(2 * i + 3)); }
+                yu[i] = a + b * i * dt + xu; yd[i] = c + e * i * dt + xd;
+            }
+            var (a2, b2) = WindEstimator.Line(yu, s.OkU, dt);
+            var (c2, e2) = WindEstimator.Line(yd, s.OkD, dt);
+            list.Add(new Lines(a2, b2, c2, e2));
+        }
+        return list;
+    }
+
+    /// <summary>The first value with the union of both intervals (the second only when it has one).</summary>
+    static FittedValue Wider(FittedValue a, FittedValue b)
+        => double.IsFinite(b.Low) && double.IsFinite(a.Low) ? a with { Low = Math.Min(a.Low, b.Low), High = Math.Max(a.High, b.High) } : a;
 
     /// <summary>
     /// The basic bootstrap interval 2 theta - q(0.975) .. 2 theta - q(0.025) (Davison and Hinkley 1997, Bootstrap
