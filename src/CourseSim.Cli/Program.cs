@@ -14,6 +14,7 @@ public static class Program
         root.Subcommands.Add(PolarCommand.Build(stdout, stderr));
         root.Subcommands.Add(WindCommand.Build(stdout, stderr));
         root.Subcommands.Add(WindFitCommand.Build(stdout, stderr));
+        root.Subcommands.Add(RigFitCommand.Build(stdout, stderr));
         root.Subcommands.Add(RaceCommand.Build(stdout, stderr));
         root.Subcommands.Add(BatchCommand.Build(stdout, stderr));
         root.Subcommands.Add(ViewCommand.Build(stdout, stderr));
