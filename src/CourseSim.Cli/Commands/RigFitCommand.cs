@@ -92,7 +92,7 @@ public static class RigFitCommand
             equipment = equipPath, tracks = files, points = pts.Count, untimed_points = untimed, stretches = r.Stretches.Count, wind = windText,
             parameters = r.Keys.ToDictionary(k => k.Key, k => new { original = k.Original, value = k.Value, low = k.Low, high = k.High, sets = k.Note }),
             correlation = r.Correlation, rms_before_pct = r.RmsBeforePct, rms_after_pct = r.RmsAfterPct,
-            bins = r.Bins.Select(b => new { twa_deg = b.TwaDeg, tws_kn = Unit.MsToKnots(b.TwsMs), count = b.Count, observed_kn = Unit.MsToKnots(b.ObservedMs), model_before_kn = Unit.MsToKnots(b.ModelBeforeMs), model_fitted_kn = Unit.MsToKnots(b.ModelFittedMs) }).ToArray(),
+            bins = r.Bins.Select(b => new { twa_deg = b.TwaDeg, tws_kn = Unit.MsToKnots(b.TwsMs), count = b.Count, observed_kn = Unit.MsToKnots(b.ObservedMs), model_before_kn = Unit.MsToKnots(b.ModelBeforeMs), model_fitted_kn = Unit.MsToKnots(b.ModelFittedMs), used = b.Used }).ToArray(),
             notes = r.Notes, files = new[] { eqOut, json, png }, caution = Caution.Text,
         });
         DurableFile.WriteText(json, jsonText + "\n");
@@ -107,9 +107,9 @@ public static class RigFitCommand
         foreach (var c in new[] { "TWA (deg)", "TWS (kn)", "stretches", "observed", "model before", "fitted", "residual" }) b.AddColumn(new TableColumn(c).RightAligned());
         foreach (var x in r.Bins)
             b.AddRow(F(x.TwaDeg, "0"), F(Unit.MsToKnots(x.TwsMs), "0.0"), x.Count.ToString(CultureInfo.InvariantCulture), F(Unit.MsToKnots(x.ObservedMs), "0.0"),
-                F(Unit.MsToKnots(x.ModelBeforeMs), "0.0"), F(Unit.MsToKnots(x.ModelFittedMs), "0.0"), F(100 * (x.ObservedMs - x.ModelFittedMs) / x.ObservedMs, "+0.0;-0.0") + " %");
+                F(Unit.MsToKnots(x.ModelBeforeMs), "0.0"), F(Unit.MsToKnots(x.ModelFittedMs), "0.0"), F(100 * (x.ObservedMs - x.ModelFittedMs) / x.ObservedMs, "+0.0;-0.0") + " %" + (x.Used ? "" : " (set aside)"));
         console.Write(b);
-        console.MarkupLine($"RMS residual: {F(r.RmsBeforePct, "0.0")} % before, [bold]{F(r.RmsAfterPct, "0.0")} %[/] fitted; bootstrap correlation of the two keys {F(r.Correlation, "0.00")}. " +
+        console.MarkupLine($"RMS residual of the bins used: {F(r.RmsBeforePct, "0.0")} % before, [bold]{F(r.RmsAfterPct, "0.0")} %[/] fitted; bootstrap correlation of the two keys {F(r.Correlation, "0.00")}. " +
             "Not fitted (the tracks cannot tell them): rider mass, sail and board sizes, fin (take them from the gear), skill (sets manoeuvres and reading the wind, not straight-line speed).");
         foreach (var n in r.Notes) console.MarkupLine("[yellow]note:[/] " + Markup.Escape(n));
         console.MarkupLine("[grey]" + Markup.Escape($"Wrote {eqOut}, {json}, {png}") + "[/]");

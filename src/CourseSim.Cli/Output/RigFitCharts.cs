@@ -43,6 +43,7 @@ public static class RigFitCharts
             var t = plt.Add.Text($"{a:0} deg", (max + ring * 0.6) * Math.Sin(Unit.DegToRad(a)), (max + ring * 0.6) * Math.Cos(Unit.DegToRad(a)));
             t.LabelFontColor = Colors.Gray; t.LabelFontSize = 11;
         }
+        plt.Axes.SetLimits(-2, max + ring, -(max + ring), max + ring);
         plt.Axes.SquareUnits();
         plt.Title(title);
         plt.XLabel("speed across the wind (kn)"); plt.YLabel("speed towards the wind (kn); true wind from the top");

@@ -10,7 +10,7 @@ namespace CourseSim.RigFit;
 public sealed class ThinDataException(string message) : Exception(message);
 
 /// <summary>A bin of steady stretches at one true wind angle and speed: observed and modelled mean speeds (m/s).</summary>
-public sealed record SpeedBin(double TwaDeg, double TwsMs, int Count, double ObservedMs, double ModelBeforeMs, double ModelFittedMs);
+public sealed record SpeedBin(double TwaDeg, double TwsMs, int Count, double ObservedMs, double ModelBeforeMs, double ModelFittedMs, bool Used = true);
 
 /// <summary>A fitted equipment key: original and fitted value with its 95 % interval.</summary>
 public sealed record FittedKey(string Key, double Original, double Value, double Low, double High, string Note);
@@ -84,6 +84,16 @@ public static class RigFitter
         }
         var full = bins.Select((b, i) => (b.Twa, b.Tws, b.Obs, b.N, i)).ToList();
         var (lf, cf) = Solve(full);
+        // Robust step: bins further than 3 scaled median absolute deviations from the first fit (a stretch whose wind
+        // angle the log's 1-min direction misjudges, a run deep downwind where planing hangs on a gust) are set aside
+        // and the fit repeated (Huber 1981, Robust Statistics, sec. 1.3: 1.4826 MAD estimates a normal sigma).
+        var res = full.Select(b => (b.Obs - Model(b.Item5, lf, cf)) / b.Obs).ToArray();
+        double med = res.Order().ElementAt(res.Length / 2);
+        double mad = 1.4826 * res.Select(x => Math.Abs(x - med)).Order().ElementAt(res.Length / 2);
+        var kept = full.Where((b, i) => Math.Abs(res[i] - med) <= 3 * Math.Max(mad, 0.02)).ToList();
+        int aside = full.Count - kept.Count;
+        if (aside > 0 && kept.Count >= 3) (lf, cf) = Solve(kept); else kept = full;
+        var keptKeys = kept.Select(b => binKeys[b.Item5]).ToHashSet();
         // Cluster bootstrap over runs.
         var runs = rows.Select((r, i) => (r.S.Run, i)).GroupBy(p => p.Run).Select(g => g.Select(p => p.i).ToArray()).ToArray();
         var rng = new CounterRng(1, 0x816_F17);
@@ -93,7 +103,7 @@ public static class RigFitter
             var g = rng.For((ulong)r);
             var idx = Enumerable.Range(0, runs.Length).SelectMany(q => runs[(int)(g.Uniform((ulong)q) * runs.Length)]).ToList();
             var rb = binsOf(idx);
-            var use = rb.Select(b => (b.Twa, b.Tws, b.Obs, b.N, binKeys.IndexOf((b.KeyTwa, b.KeyTws)))).Where(b => b.Item5 >= 0).ToList();
+            var use = rb.Where(b => keptKeys.Contains((b.KeyTwa, b.KeyTws))).Select(b => (b.Twa, b.Tws, b.Obs, b.N, binKeys.IndexOf((b.KeyTwa, b.KeyTws)))).ToList();
             if (use.Count < 3) continue;
             var (a, c) = Solve(use);
             bl.Add(a); bc.Add(c);
@@ -102,6 +112,7 @@ public static class RigFitter
         var (llo, lhi) = Pct(bl); var (clo, chi) = Pct(bc);
         double rho = Corr(bl, bc);
         var notes = new List<string>();
+        if (aside > 0) notes.Add($"{aside} of {full.Count} bins set aside as outliers (more than 3 scaled MADs from the first fit); the table marks them");
         if (Math.Abs(rho) > 0.97)
             notes.Add($"{LeverKey} and {ChopKey} are not separately identifiable from these tracks (bootstrap correlation {rho:0.00}): " +
                 "their combination is; sail more angles or in another wind strength to tell them apart");
@@ -111,8 +122,8 @@ public static class RigFitter
         bool edge(double v, double lo, double hi) => Math.Abs(v - lo) < 1e-6 || Math.Abs(v - hi) < 1e-6;
         if (edge(lf, Math.Max(0.4, l0 - 1.5 * LeverStep), Math.Min(1.8, l0 + 1.5 * LeverStep)) || edge(cf, Math.Max(0, c0 - 1.5 * ChopStep), Math.Min(60, c0 + 1.5 * ChopStep)))
             notes.Add("a fitted value reached the edge of the range searched around the original; the set-up may differ from the file in more than these two keys (sail size, board, fin?)");
-        var binsOut = bins.Select((b, i) => new SpeedBin(b.Twa, b.Tws, b.N, b.Obs, Model(i, l0, c0), Model(i, lf, cf))).ToList();
-        double Rms(Func<SpeedBin, double> m) => 100 * Math.Sqrt(binsOut.Sum(b => b.Count * Math.Pow((b.ObservedMs - m(b)) / b.ObservedMs, 2)) / binsOut.Sum(b => b.Count));
+        var binsOut = bins.Select((b, i) => new SpeedBin(b.Twa, b.Tws, b.N, b.Obs, Model(i, l0, c0), Model(i, lf, cf), keptKeys.Contains(binKeys[i]))).ToList();
+        double Rms(Func<SpeedBin, double> m) => 100 * Math.Sqrt(binsOut.Where(b => b.Used).Sum(b => b.Count * Math.Pow((b.ObservedMs - m(b)) / b.ObservedMs, 2)) / binsOut.Where(b => b.Used).Sum(b => b.Count));
         var fitted = eq with { Rider = eq.Rider with { LeverM = Math.Round(lf, 3) }, Conditions = eq.Conditions with { ChopDragAreaCm2 = Math.Round(cf, 1) } };
         return new RigFitResult
         {

@@ -19,9 +19,10 @@ public static class RigTracks
 
     /// <summary>One leg: the board held at <paramref name="twaDeg"/> (signed: positive starboard) for <paramref name="seconds"/>
     /// after 60 s to get going; positions at 1 Hz in metres, noise added.</summary>
-    public static List<(double X, double Y)> Leg(string equipment, double kn, double fromDeg, double twaDeg, int seconds, CounterRng noise, string sets = "")
+    public static List<(double X, double Y)> Leg(string equipment, double kn, double fromDeg, double twaDeg, int seconds, CounterRng noise, string sets = "",
+        string? windToml = null)
     {
-        var setup = EngineTestKit.Parse(EngineTestKit.SteadyWind(kn, fromDeg) + "[race]\nfalls = false\ncountdown_s = 20\ntime_limit_s = 900\n" +
+        var setup = EngineTestKit.Parse((windToml ?? EngineTestKit.SteadyWind(kn, fromDeg)) + "[race]\nfalls = false\ncountdown_s = 20\ntime_limit_s = 900\n" +
             "[course]\nkind = \"waypoints\"\norder = \"far\"\n[course.marks.far]\nx_m = 0\ny_m = 40000\n" +
             $"[boards.a]\nequipment = \"{EngineTestKit.Equip(equipment)}\"\n" + (sets.Length > 0 ? $"set = \"{sets}\"\n" : ""), 5);
         var race = new Race(setup);
@@ -45,13 +46,17 @@ public static class RigTracks
 
     /// <summary>A GPX 1.1 file with one segment per leg, legs 30 s apart in time, placed at the demo venue.</summary>
     public static string Gpx(IReadOnlyList<List<(double X, double Y)>> legs, DateTime start, string name)
+        => Gpx(legs.Select((l, i) => (start.AddSeconds(legs.Take(i).Sum(p => p.Count + 30)), l)).ToList(), name);
+
+    /// <summary>A GPX 1.1 file with one segment per leg, each starting at its own time.</summary>
+    public static string Gpx(IReadOnlyList<(DateTime Start, List<(double X, double Y)> Points)> legs, string name)
     {
         var sb = new StringBuilder();
         sb.Append("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n<gpx version=\"1.1\" creator=\"CourseSim test data (simulated, not a real track)\" xmlns=\"http://www.topografix.com/GPX/1/1\">\n");
         sb.Append($"  <trk>\n    <name>{name}</name>\n");
-        var t = start;
-        foreach (var leg in legs)
+        foreach (var (start, leg) in legs)
         {
+            var t = start;
             sb.Append("    <trkseg>\n");
             foreach (var (x, y) in leg)
             {
@@ -60,7 +65,6 @@ public static class RigTracks
                 t = t.AddSeconds(1);
             }
             sb.Append("    </trkseg>\n");
-            t = t.AddSeconds(30);
         }
         sb.Append("  </trk>\n</gpx>\n");
         return sb.ToString();

@@ -40,6 +40,47 @@ public class DemoDataTests
         return sb.ToString();
     }
 
+    /// <summary>The invented truth of the demo rider's tracks: Maren Holt (scenarios/equipment/light-66.toml) sails with
+    /// more lever and in more chop than her file says.</summary>
+    public const string RiderTruth = "rider.lever_m=1.3; conditions.chop_drag_area_cm2=26";
+
+    /// <summary>Two sessions of Maren's in the logged wind: legs held at true wind angles, 150 s each after getting
+    /// going, at times through the afternoon, with the GPS noise of RigTracks.</summary>
+    public static (string A, string B) RiderTracks()
+    {
+        string log = Repo("scenarios", "data", "korrin-point-station.csv");
+        var start = new DateTime(2026, 6, 14, 11, 0, 0, DateTimeKind.Utc);
+        var rng = new CourseSim.Random.CounterRng(2026, 0x6_9503);
+        string Session(double[] twas, double firstOffsetS, string name)
+        {
+            var legs = new List<(DateTime, List<(double, double)>)>();
+            double off = firstOffsetS;
+            foreach (var twa in twas)
+            {
+                string wind = $"[wind]\nlog = \"{log}\"\nlog_offset_s = {off}\ngust_intensity = 0.13\ngust_length_m = 180\nshadows = false\n";
+                var pts = CourseSim.Tests.RigFit.RigTracks.Leg("light-66.toml", 0, 0, twa, 150, rng.For((ulong)(off)), RiderTruth.Replace(" ", ""), wind);
+                legs.Add((start.AddSeconds(off + 60), pts));
+                off += 240;
+            }
+            return CourseSim.Tests.RigFit.RigTracks.Gpx(legs, name);
+        }
+        return (Session([55, -55, 75, -75, 95, -95, 115, -115], 3600, "Maren Holt, session 1"),
+                Session([125, -125, 140, -140, 60, -60, 105, -105], 12600, "Maren Holt, session 2"));
+    }
+
+    [Fact]
+    public void TheRiderTracksAreThere()
+    {
+        string a = Repo("scenarios", "data", "maren-session-1.gpx"), b = Repo("scenarios", "data", "maren-session-2.gpx");
+        if (System.Environment.GetEnvironmentVariable("COURSESIM_UPDATE_DEMO") == "1")
+        {
+            var (ta, tb) = RiderTracks();
+            File.WriteAllText(a, ta); File.WriteAllText(b, tb);
+        }
+        Assert.Equal(8, CourseSim.Replay.GpxReader.Load(a).Count);
+        Assert.Equal(8, CourseSim.Replay.GpxReader.Load(b).Count);
+    }
+
     static string Repo(params string[] p) => Path.Combine([RepoRoot.Path, .. p]);
 
     [Fact]
