@@ -47,9 +47,11 @@ public static class WindFitCommand
         if (averaging is double a && !(a >= 0 && a <= 3600)) throw new UsageException($"--averaging-s: {a} is out of range (accepted 0 to 3600 s)");
         var log = WindLog.Load(path, WindLogFormat.Parse(columns, "--columns"));
         double lo = Bound(fromText, log, "--from", 0), hi = Bound(toText, log, "--to", log.T[^1]);
+        string span = $"the log runs {log.Start:yyyy-MM-ddTHH:mm:ssZ} to {log.Start.AddSeconds(log.T[^1]):yyyy-MM-ddTHH:mm:ssZ}, 0 to {log.T[^1]:0} s";
+        if (lo > log.T[^1] || hi < 0) throw new UsageException($"the window {lo:0} s to {hi:0} s lies outside the log ({span})");
         if (hi <= lo) throw new UsageException($"--to ({hi:0} s) must be after --from ({lo:0} s)");
         var win = log.Window(lo, hi);
-        if (win.Count < 30) throw new UsageException($"the window {lo:0} s to {hi:0} s holds {win.Count} rows of {path}; at least 30 are needed (the log runs from 0 to {log.T[^1]:0} s, {log.Start:yyyy-MM-ddTHH:mm:ssZ} on)");
+        if (win.Count < 30) throw new UsageException($"the window {lo:0} s to {hi:0} s holds {win.Count} rows of {path}; at least 30 are needed ({span})");
         if (win.Problems.Count > 0)
         {
             stderr.WriteLine($"warning: {win.Problems.Count} row(s) of {path} set aside:");
