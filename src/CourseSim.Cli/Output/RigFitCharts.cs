@@ -47,7 +47,7 @@ public static class RigFitCharts
         plt.Axes.SquareUnits();
         plt.Title(title);
         plt.XLabel("speed across the wind (kn)"); plt.YLabel("speed towards the wind (kn); true wind from the top");
-        plt.ShowLegend(Alignment.LowerLeft);
+        plt.ShowLegend(Alignment.UpperLeft);
         plt.SavePng(path, 900, 1000);
     }
 }

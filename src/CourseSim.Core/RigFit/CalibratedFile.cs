@@ -41,6 +41,15 @@ public static class CalibratedFile
                 lines.Insert(ins, line);
             }
         }
+        // The set-up's label says it is the fitted one, so a comparison with the original tells them apart.
+        int firstTable = lines.FindIndex(l => l.TrimStart().StartsWith('['));
+        int nameAt = lines.FindIndex(l => l.TrimStart().StartsWith("name", StringComparison.Ordinal) && l.Contains('='));
+        if (nameAt >= 0 && (firstTable < 0 || nameAt < firstTable))
+        {
+            string v = lines[nameAt][(lines[nameAt].IndexOf('=') + 1)..].Trim();
+            int hash = v.IndexOf('#'); if (hash > 0 && v.LastIndexOf('"', hash) > 0) v = v[..hash].Trim();
+            if (v.Length >= 2 && v[0] == '"' && v[^1] == '"') lines[nameAt] = $"name = \"{v[1..^1]} (fitted)\"  # was {v}";
+        }
         var sb = new StringBuilder();
         sb.Append($"# Calibrated by coursesim rig-fit from {source} (docs/rig-fit.md): the fitted keys say so beside them.\n");
         sb.Append(string.Join("\n", lines));

@@ -56,6 +56,29 @@ public class FitCliTests
     }
 
     [Fact]
+    public void RigFitOnTheDemoTracksWritesALoadableCalibratedFile()
+    {
+        string dir = Temp();
+        var (code, stdout, stderr) = Run("rig-fit", Equip("light-66.toml"), Data("maren-session-1.gpx"), Data("maren-session-2.gpx"),
+            "--wind", Data("korrin-point-station.csv"), "--format", "json", "--out", dir);
+        Assert.True(code == 0, stderr);
+        using var doc = JsonDocument.Parse(stdout);
+        var lever = doc.RootElement.GetProperty("parameters").GetProperty("rider.lever_m");
+        // The demo's invented truth (scenarios/data/README.md): lever 1.3 m, chop 26 cm2, inside the intervals.
+        Assert.InRange(1.3, lever.GetProperty("low").GetDouble(), lever.GetProperty("high").GetDouble());
+        var chop = doc.RootElement.GetProperty("parameters").GetProperty("conditions.chop_drag_area_cm2");
+        Assert.InRange(26.0, chop.GetProperty("low").GetDouble(), chop.GetProperty("high").GetDouble());
+        string file = Path.Combine(dir, "light-66-fitted.toml");
+        var text = File.ReadAllText(file);
+        Assert.Contains("# fitted by coursesim rig-fit from 2 track file(s)", text);
+        Assert.Contains("mass_kg = 58", text); // the original's other keys kept as written
+        var eq = CourseSim.Equilibrium.EquipmentFile.Load(file);
+        Assert.Equal(lever.GetProperty("value").GetDouble(), eq.Rider.LeverM, 3);
+        Assert.Equal("Maren 6.6 (fitted)", eq.Name);
+        Assert.True(new FileInfo(Path.Combine(dir, "rig-fit.png")).Length > 20_000);
+    }
+
+    [Fact]
     public void AWalkOnTheBeachAndASingleTackSayWhatIsMissing()
     {
         string dir = Temp();
