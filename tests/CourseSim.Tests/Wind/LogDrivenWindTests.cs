@@ -74,6 +74,16 @@ public class LogDrivenWindTests
     }
 
     [Fact]
+    public void AnExperimentsWindRangeOnALogDrivenScenarioIsALocatedError()
+    {
+        string dir = LogFolder("");
+        File.WriteAllText(Path.Combine(dir, "exp.toml"), "scenario = \"race.toml\"\nraces = 2\nwind_min_kn = 8\nwind_max_kn = 12\n[variants.x]\nset = \"\"\n");
+        var e = Assert.Throws<SettingsException>(() => ExperimentFile.Load(Path.Combine(dir, "exp.toml")));
+        Assert.Equal(3, e.Line);
+        Assert.Contains("log_windows", e.Message);
+    }
+
+    [Fact]
     public void KeysTheLogReplacesAreLocatedErrors()
     {
         string dir = LogFolder("speed_kn = 12\n");
