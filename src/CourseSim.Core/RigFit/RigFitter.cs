@@ -83,7 +83,10 @@ public static class RigFitter
             return (r.MinimizingPoint[0], r.MinimizingPoint[1]);
         }
         var full = bins.Select((b, i) => (b.Twa, b.Tws, b.Obs, b.N, i)).ToList();
-        var (lf, cf) = Solve(full);
+        double lf, cf;
+        try { (lf, cf) = Solve(full); }
+        catch (Exception e) when (e is MaximumIterationsException or ArgumentException or InvalidOperationException)
+        { throw new ThinDataException($"the fit did not settle ({e.Message}); the steady speeds may be too scattered for the model: check the wind given"); }
         // Robust step: bins further than 3 scaled median absolute deviations from the first fit (a stretch whose wind
         // angle the log's 1-min direction misjudges, a run deep downwind where planing hangs on a gust) are set aside
         // and the fit repeated (Huber 1981, Robust Statistics, sec. 1.3: 1.4826 MAD estimates a normal sigma).
@@ -92,7 +95,12 @@ public static class RigFitter
         double mad = 1.4826 * res.Select(x => Math.Abs(x - med)).Order().ElementAt(res.Length / 2);
         var kept = full.Where((b, i) => Math.Abs(res[i] - med) <= 3 * Math.Max(mad, 0.02)).ToList();
         int aside = full.Count - kept.Count;
-        if (aside > 0 && kept.Count >= 3) (lf, cf) = Solve(kept); else kept = full;
+        if (aside > 0 && kept.Count >= 3)
+        {
+            try { (lf, cf) = Solve(kept); }
+            catch (Exception e) when (e is MaximumIterationsException or ArgumentException or InvalidOperationException) { kept = full; }
+        }
+        else kept = full;
         var keptKeys = kept.Select(b => binKeys[b.Item5]).ToHashSet();
         // Cluster bootstrap over runs.
         var runs = rows.Select((r, i) => (r.S.Run, i)).GroupBy(p => p.Run).Select(g => g.Select(p => p.i).ToArray()).ToArray();
@@ -105,8 +113,12 @@ public static class RigFitter
             var rb = binsOf(idx);
             var use = rb.Where(b => keptKeys.Contains((b.KeyTwa, b.KeyTws))).Select(b => (b.Twa, b.Tws, b.Obs, b.N, binKeys.IndexOf((b.KeyTwa, b.KeyTws)))).ToList();
             if (use.Count < 3) continue;
-            var (a, c) = Solve(use);
-            bl.Add(a); bc.Add(c);
+            try
+            {
+                var (a, c) = Solve(use);
+                bl.Add(a); bc.Add(c);
+            }
+            catch (Exception e) when (e is MaximumIterationsException or ArgumentException or InvalidOperationException) { /* a replicate that does not settle is left out */ }
         }
         static (double, double) Pct(List<double> v) { var s = v.Order().ToArray(); return s.Length < 20 ? (double.NaN, double.NaN) : (s[(int)(0.025 * (s.Length - 1))], s[(int)Math.Ceiling(0.975 * (s.Length - 1))]); }
         var (llo, lhi) = Pct(bl); var (clo, chi) = Pct(bc);

@@ -26,7 +26,7 @@ public sealed class LogSeries
     public static LogSeries From(WindLog log, double? step = null)
     {
         double dt = step ?? log.MedianStepS;
-        if (!(dt > 0)) throw new ArgumentException("log has no time step");
+        if (!(dt > 0)) throw new Settings.SettingsException(log.Path, 0, null, "the log has no time step (all rows at one time?)");
         var dirs = log.DirDeg.Where(double.IsFinite).ToArray();
         double mean = dirs.Length > 0 ? CircularMean(dirs) : 0;
         int n = (int)Math.Floor(log.DurationS / dt + 1e-9) + 1;
@@ -55,7 +55,8 @@ public sealed class LogSeries
                 d[i] = rel; okD[i] = true; prevRel = rel;
             }
         }
-        if (okU.Count(x => x) < 10) throw new ArgumentException("fewer than 10 points of the log are on the grid");
+        if (okU.Count(x => x) < 10)
+            throw new Settings.SettingsException(log.Path, 0, null, $"only {okU.Count(x => x)} times of a {dt:0.#}-s grid lie within 2.5 intervals of a row: the rows are too irregular or too gappy to fit (at least 10 needed)");
         Fill(u, okU); Fill(d, okD);
         return new LogSeries { Dt = dt, U = u, D = d, G = g, OkU = okU, OkD = okD, MeanDirDeg = mean };
     }
