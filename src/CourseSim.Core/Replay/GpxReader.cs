@@ -41,8 +41,10 @@ public static class GpxReader
         {
             using var r = XmlReader.Create(stream, settings);
             var li = (IXmlLineInfo)r;
-            if (!r.ReadToFollowing("gpx") && r.LocalName != "gpx")
-                throw new SettingsException(path, li.LineNumber, null, "no <gpx> element (expected a GPX 1.0 or 1.1 file)");
+            // The root by its local name, so a prefixed root (<g:gpx xmlns:g="...">) is read too.
+            while (r.Read() && r.NodeType != XmlNodeType.Element) { }
+            if (r.NodeType != XmlNodeType.Element || r.LocalName != "gpx")
+                throw new SettingsException(path, li.LineNumber, null, $"no <gpx> root element{(r.NodeType == XmlNodeType.Element ? $" (found <{r.Name}>)" : "")} (expected a GPX 1.0 or 1.1 file)");
             string ns = r.NamespaceURI;
             if (ns.Length > 0 && !ns.StartsWith("http://www.topografix.com/GPX/1/", StringComparison.Ordinal))
                 throw new SettingsException(path, li.LineNumber, null, $"<gpx> in namespace '{ns}' (expected http://www.topografix.com/GPX/1/0 or /1/1)");

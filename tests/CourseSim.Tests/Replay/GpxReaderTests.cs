@@ -71,11 +71,21 @@ public class GpxReaderTests
         Assert.Equal(new DateTimeOffset(2026, 6, 14, 12, 0, 1, TimeSpan.Zero), segs[0].Points[1].Time);
     }
 
+    [Fact]
+    public void APrefixedRootAndNoNamespaceAreRead()
+    {
+        var a = GpxReader.Parse("<g:gpx version=\"1.1\" xmlns:g=\"http://www.topografix.com/GPX/1/1\"><g:trk><g:trkseg><g:trkpt lat=\"1\" lon=\"2\"><g:time>2026-06-14T12:00:00Z</g:time></g:trkpt></g:trkseg></g:trk></g:gpx>", "p.gpx");
+        Assert.Equal(2, a[0].Points[0].Lon, 12);
+        Assert.NotNull(a[0].Points[0].Time);
+        var b = GpxReader.Parse("<gpx version=\"1.1\"><trk><trkseg><trkpt lat=\"1\" lon=\"2\"/></trkseg></trk></gpx>", "n.gpx");
+        Assert.Single(b[0].Points);
+    }
+
     [Theory]
     [InlineData("<gpx xmlns=\"http://www.topografix.com/GPX/1/1\">\n<trk><trkseg>\n<trkpt lat=\"1\" lon=\"2\"></trkseg></trk></gpx>", 3)]
     [InlineData("<gpx xmlns=\"http://www.topografix.com/GPX/1/1\">\n<trk><trkseg>\n\n<trkpt lat=\"91\" lon=\"2\"/></trkseg></trk></gpx>", 4)]
     [InlineData("<gpx xmlns=\"http://www.topografix.com/GPX/1/1\"><trk><trkseg>\n<trkpt lat=\"1\" lon=\"2\">\n<time>noon</time></trkpt></trkseg></trk></gpx>", 3)]
-    [InlineData("<kml>\n</kml>", 2)]
+    [InlineData("<kml>\n</kml>", 1)]
     public void MalformedFilesAreLocatedErrors(string text, int line)
     {
         var e = Assert.Throws<SettingsException>(() => GpxReader.Parse(text, "bad.gpx"));
