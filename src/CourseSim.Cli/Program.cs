@@ -13,6 +13,8 @@ public static class Program
         var root = new RootCommand("CourseSim: windsurf race-course simulation. Polars, wind fields and races from board physics.");
         root.Subcommands.Add(PolarCommand.Build(stdout, stderr));
         root.Subcommands.Add(WindCommand.Build(stdout, stderr));
+        root.Subcommands.Add(WindFitCommand.Build(stdout, stderr));
+        root.Subcommands.Add(RigFitCommand.Build(stdout, stderr));
         root.Subcommands.Add(RaceCommand.Build(stdout, stderr));
         root.Subcommands.Add(BatchCommand.Build(stdout, stderr));
         root.Subcommands.Add(ViewCommand.Build(stdout, stderr));

@@ -34,10 +34,11 @@ public static class WindCommand
             throw new UsageException($"--at: '{atText}' is not x,y in metres (for example 250,-400)");
         if (!(duration >= 60 && duration <= 86400)) throw new UsageException($"--duration: {duration} is out of range (accepted 60 to 86400 s)");
         var f = ScenarioFile.Load(path, sets);
-        var settings = WindFile.From(f);
+        var settings0 = WindFile.From(f);
         // The race's wind field is WindField(settings, race seed) (RaceContext), so without --seed this is the wind the
         // scenario's races sail.
         ulong seed = ScenarioFile.SeedOf(f, seedOption);
+        var settings = WindLogDrive.ForSeed(settings0, seed);
         string name = f.Text("name") is { Length: > 0 } n ? n : Path.GetFileNameWithoutExtension(path);
         var field = new WindField(settings, seed);
         var (t, sp, dir) = WindStatistics.Series(field, x, y, duration);

@@ -33,7 +33,10 @@ public sealed record ExperimentSpec(string Name, string Description, string Scen
     public RaceSetup SetupFor(int variant, int race)
     {
         var v = Variants[variant];
-        var setup = v.Setup with { Race = v.Setup.Race with { Seed = SeedFor(variant, race) } };
+        ulong seed = SeedFor(variant, race);
+        // A log-driven wind with random windows: each race's window is drawn by its own seed (so the thread count and
+        // the order races run in change nothing).
+        var setup = v.Setup with { Race = v.Setup.Race with { Seed = seed }, Wind = Wind.WindLogDrive.ForSeed(v.Setup.Wind, seed) };
         double wind = WindFor(race);
         return double.IsNaN(wind) ? setup : setup with { Wind = setup.Wind with { SpeedKn = wind } };
     }
@@ -156,6 +159,8 @@ public static class ExperimentFile
         double wMin = f.Number("wind_min_kn"), wMax = f.Number("wind_max_kn");
         if (double.IsNaN(wMin) != double.IsNaN(wMax)) throw f.ErrorAt(double.IsNaN(wMin) ? "wind_max_kn" : "wind_min_kn", "give both wind_min_kn and wind_max_kn, or neither");
         if (wMin > wMax) throw f.ErrorAt("wind_max_kn", $"must be at least wind_min_kn ({wMin})");
+        if (!double.IsNaN(wMin) && variants.Any(v => v.Setup.Wind.Log is not null))
+            throw f.ErrorAt("wind_min_kn", "the scenario's wind comes from a log (wind.log): draw each race's wind from it with wind.log_windows = \"random\" instead of a wind range");
         int n = races ?? (int)f.Number("races");
         return new ExperimentSpec(f.Text("name") is { Length: > 0 } nm ? nm : Path.GetFileNameWithoutExtension(path), f.Text("description"),
             full, board, variants, n, (ulong)f.Number("seed"), f.Path, f.Text("seeds") == "common", wMin, wMax, f.Number("target_duration_s"), focus);

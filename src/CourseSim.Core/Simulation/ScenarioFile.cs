@@ -67,7 +67,8 @@ public static class ScenarioFile
     /// </summary>
     public static RaceSetup FromSettings(SettingsFile f, ulong? seed = null, TacticRegistry? tactics = null)
     {
-        var wind = WindFile.From(f);
+        // A log-driven wind takes the window of this race's seed (fixed: wind.log_offset_s; random: drawn by the seed).
+        var wind = WindLogDrive.ForSeed(WindFile.From(f), SeedOf(f, seed));
         string startText = f.Text("race.start_time_utc");
         if (!DateTime.TryParse(startText, CultureInfo.InvariantCulture, DateTimeStyles.AdjustToUniversal | DateTimeStyles.AssumeUniversal, out var start))
             throw f.ErrorAt("race.start_time_utc", $"'{startText}' is not an ISO 8601 time such as 2026-06-14T13:00:00Z");
@@ -86,7 +87,8 @@ public static class ScenarioFile
             Seed = SeedOf(f, seed),
         };
         if (race.RecordIntervalS < 1 / race.StepHz) throw f.ErrorAt("race.record_interval_s", $"must be at least one step (1/{race.StepHz} s)");
-        var course = CourseBuilder.Build(f, wind.DirectionDeg);
+        // With random log windows the course is laid to the whole log's mean direction: one layout for every race.
+        var course = CourseBuilder.Build(f, wind.Log is { Random: true } lw ? lw.MeanDirDeg : wind.DirectionDeg);
         // Tactics of the user's own come first, so the boards can name them. The registry is this scenario's own; the
         // race builds its registry again from the same assemblies (TacticAssemblies).
         var registry = tactics ?? new TacticRegistry();

@@ -103,7 +103,7 @@ public sealed class WindField
     }
 
     /// <summary>Mean speed (m/s) at time t: start speed plus ramp.</summary>
-    public double MeanSpeed(double t) => Math.Max(0, _u0 + _ramp * t);
+    public double MeanSpeed(double t) => Settings.Log is { } log ? log.SpeedAt(t) : Math.Max(0, _u0 + _ramp * t);
 
     /// <summary>Oscillating shift (deg) at "advected time" tau.</summary>
     public double OscillatingShift(double tau)
@@ -133,9 +133,19 @@ public sealed class WindField
         // Patterns travel downwind at the starting mean speed: a point 'along' metres downwind sees at t what the origin saw at t - along/U.
         double adv = _u0 > 0.1 ? _u0 : 0.1;
         double tau = t - along * (adv == _u0 ? _invU0 : 1 / adv);
-        double dir = s.DirectionDeg + TabulatedShift(tau) + s.PersistentDegPerMin * tau * (1 / 60.0)
-                     + s.BendDeg * Math.Clamp(cross * (1 / BendWidthM), -0.5, 0.5);
-        double u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (cross * 0.001);
+        double dir, u;
+        if (s.Log is null)
+        {
+            dir = s.DirectionDeg + TabulatedShift(tau) + s.PersistentDegPerMin * tau * (1 / 60.0)
+                  + s.BendDeg * Math.Clamp(cross * (1 / BendWidthM), -0.5, 0.5);
+            u = MeanSpeed(t) + Unit.KnotsToMs(s.PressureKnPerKm) * (cross * 0.001);
+        }
+        else
+        {
+            // Driven by a log: speed and direction at the origin as logged, carried downwind (Taylor) like the shifts.
+            dir = s.Log.DirectionAt(tau) + s.BendDeg * Math.Clamp(cross * (1 / BendWidthM), -0.5, 0.5);
+            u = s.Log.SpeedAt(tau) + Unit.KnotsToMs(s.PressureKnPerKm) * (cross * 0.001);
+        }
         if (s.BandAmplitudeKn != 0) u += Unit.KnotsToMs(s.BandAmplitudeKn) * Math.Sin(2 * Math.PI * (along - adv * t) / s.BandSpacingM);
         u = Math.Max(u, 0);
         if (_gu is not null)

@@ -26,9 +26,44 @@ public static class WindFile
         KeySpec.Number("wind.shadow_half_width_m", 0.5, 10, 2.5, "half-width of a wake where it starts, m"),
         KeySpec.Number("wind.shadow_spread", 0, 0.5, 0.10, "growth of the wake half-width per metre downstream"),
         KeySpec.Number("wind.area_m", 200, 20000, 3000, "side of the square course area mapped, m"),
+        KeySpec.Text("wind.log", "", "measured wind log (CSV) driving mean speed, direction and shifts, relative to the scenario file (docs/wind-fit.md)"),
+        KeySpec.Number("wind.log_offset_s", 0, 1e8, 0, "seconds after the log's first row at which the starting signal falls"),
+        KeySpec.Text("wind.log_columns", "", "column mapping of the log, e.g. time=Zeit,speed=V,dir=R,unit=m/s (default: found by header)"),
+        KeySpec.Text("wind.log_windows", "fixed", "fixed: every race at log_offset_s; random: each race's window drawn from the log by its seed", ["fixed", "random"]),
     ];
 
-    public static WindSettings From(SettingsFile f) => new()
+    /// <summary>Keys the log replaces: given together with wind.log they are an error.</summary>
+    static readonly string[] LogReplaces = ["wind.speed_kn", "wind.direction_deg", "wind.ramp_kn_per_hour", "wind.shift_amplitude_deg",
+        "wind.shift_period_s", "wind.shift_irregularity", "wind.persistent_deg_per_min"];
+
+    /// <summary>
+    /// The [wind] table. With <c>wind.log</c> the log is read (relative to the file) and attached; the race's window is
+    /// resolved by <see cref="WindLogDrive.ForSeed"/> once the race's seed is known.
+    /// </summary>
+    public static WindSettings From(SettingsFile f)
+    {
+        var w = Parametric(f);
+        string log = f.Text("wind.log");
+        if (log.Length == 0)
+        {
+            foreach (var k in new[] { "wind.log_offset_s", "wind.log_columns", "wind.log_windows" })
+                if (f.Has(k)) throw f.ErrorAt(k, "applies only with wind.log = \"FILE.csv\"");
+            return w;
+        }
+        foreach (var k in LogReplaces)
+            if (f.Has(k)) throw f.ErrorAt(k, "the wind log (wind.log) gives the mean speed, direction and shifts: remove this key, or wind.log");
+        string full = System.IO.Path.GetFullPath(System.IO.Path.Combine(f.Directory, log));
+        if (!File.Exists(full)) throw f.ErrorAt("wind.log", $"wind log '{log}' not found (looked for {full})");
+        var format = WindLogFormat.Parse(f.Text("wind.log_columns"), f.Path + " (wind.log_columns)");
+        var wl = WindLog.Load(full, format);
+        double lead = f.Schema.TryFind("race.countdown_s", out _) ? f.Number("race.countdown_s") : 0;
+        double span = lead + (f.Schema.TryFind("race.time_limit_s", out _) ? f.Number("race.time_limit_s") : 3600);
+        double off = f.Number("wind.log_offset_s");
+        if (off > wl.DurationS) throw f.ErrorAt("wind.log_offset_s", $"{off} s is beyond the end of the log ({wl.DurationS:0} s after its first row)");
+        return w with { Log = WindLogDrive.From(wl, off, f.Text("wind.log_windows") == "random", lead, span) };
+    }
+
+    static WindSettings Parametric(SettingsFile f) => new()
     {
         SpeedKn = f.Number("wind.speed_kn"), DirectionDeg = f.Number("wind.direction_deg"), RampKnPerHour = f.Number("wind.ramp_kn_per_hour"),
         ShiftAmplitudeDeg = f.Number("wind.shift_amplitude_deg"), ShiftPeriodS = f.Number("wind.shift_period_s"),

@@ -42,4 +42,6 @@ public sealed record WindSettings
     public double ShadowHalfWidthM { get; init; } = 2.5;
     /// <summary>Wake growth rate (Jensen's k): half-width grows by k per metre downstream.</summary>
     public double ShadowSpread { get; init; } = 0.10;
+    /// <summary>A measured log driving mean speed, direction and shifts (null: the parametric field above).</summary>
+    public WindLogDrive? Log { get; init; }
 }
