@@ -8,4 +8,6 @@ namespace CourseSim.Tests;
 public static class Slow
 {
     public const string Category = "Slow";
+    /// <summary>Tests longer than CI's budget (a quarter of an hour on two cores): run only with COURSESIM_LONG=1.</summary>
+    public const string Long = "Long";
 }

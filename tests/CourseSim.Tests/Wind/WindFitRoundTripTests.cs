@@ -73,8 +73,12 @@ public class WindFitRoundTripTests(ITestOutputHelper output)
         foreach (var (k, c) in Coverage(1, false, 2 * 3600, 4, 40, [])) Assert.True(c >= 0.75, $"{k}: {c:P0}");
     }
 
+    /// <summary>The 90 % claim for 1-s rows over 40 seeds: about 12 minutes on two cores, so outside CI (category Long:
+    /// COURSESIM_LONG=1 dotnet test). Last run 2 Dec 2026 (docs/wind-fit.md): every key at 90 % or more.</summary>
+    [Fact, Trait("Category", Slow.Long)]
+    public void ManySeedsOfOneSecondRows() => ManySeeds(1.0, false, 40);
+
     [Theory, Trait("Category", Slow.Category)]
-    [InlineData(1.0, false, 40)]
     [InlineData(60.0, true, 50)]
     [InlineData(600.0, true, 50)]
     public void ManySeeds(double dt, bool gusts, int seeds)
