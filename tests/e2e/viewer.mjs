@@ -40,9 +40,11 @@ try {
       return seen.size;
     });
     check("canvas not blank", colours > 50, `${colours} distinct colours`);
-    // Play moves the boards.
+    // Play moves the boards: from the middle of the replay, when every board is racing (early in the countdown most
+    // boards wait further back, luffing, and barely move).
+    await page.evaluate(() => { const s = document.getElementById("scrub"); s.value = String(Math.round(0.5 * Number(s.max))); s.dispatchEvent(new Event("input")); });
+    await page.waitForTimeout(100);
     const before = await page.evaluate(() => window.__viewer.positions());
-    await page.keyboard.press("End"); await page.keyboard.press("Home");
     await page.keyboard.press("Space");
     await page.waitForTimeout(1500);
     await page.keyboard.press("Space");
