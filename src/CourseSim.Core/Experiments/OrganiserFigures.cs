@@ -19,7 +19,8 @@ public sealed record LegTime(string Label, Interval MinutesT);
 /// race duration (first and last finisher), the share of races with no finisher within the time limit and with a board
 /// not finishing by it, the share within 10 % of a target duration, the signed line bias over the start sequence and the
 /// share of races each end was favoured, side fairness on the first beat, leg times by leg, contacts and bunching.
-/// Means over races take Student's t interval; shares of races the Wilson interval (Statistics).
+/// Means over races take Student's t interval; shares of races the modified Wilson interval; contacts per race Garwood's
+/// Poisson interval (Statistics).
 /// </summary>
 public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFinisherS, Spread LastFinisherS, Interval NoFinisher, Interval SomeNotFinished,
     Interval? WithinTarget, Interval LineBiasDeg, Interval LineBiasM, Interval RightEndFavoured, Interval ShareLeft, Interval SidePlaceDiff,
@@ -39,7 +40,10 @@ public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFin
         return Statistics.PairedT(v);
     }
 
-    static Interval Share(int k, int n) => n == 0 ? None : Statistics.Wilson(k, n);
+    static Interval Share(int k, int n) => n == 0 ? None : Statistics.WilsonModified(k, n);
+
+    /// <summary>Events per race from the races' counts, with Garwood's Poisson interval; none gives NaN.</summary>
+    public static Interval Rate(IReadOnlyList<int> perRace) => perRace.Count == 0 ? None : Statistics.PoissonRate(perRace.Sum(), perRace.Count);
 
     public static OrganiserFigures Of(string variant, IReadOnlyList<RaceMetrics> races, IReadOnlyList<RaceRow> rows, double targetS)
     {
@@ -77,7 +81,7 @@ public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFin
             Share(races.Count(m => m.Finishers == 0), n), Share(races.Count(m => m.Finishers < m.Boards), n), target,
             MeanT(bias), MeanT(races.Select(m => m.LineBiasM).ToList()), Share(bias.Count(b => b > 0), n),
             MeanT(shareLeft), MeanT(sideDiff), sideDiff.Count, legs,
-            MeanT(races.Select(m => (double)m.Contacts).ToList()), MeanT(races.Select(m => (double)m.AvoidableContacts).ToList()),
+            Rate(races.Select(m => m.Contacts).ToList()), Rate(races.Select(m => m.AvoidableContacts).ToList()),
             n == 0 ? double.NaN : races.Average(m => m.PeakAtMark), n == 0 ? double.NaN : races.Average(m => (double)m.CloseArrivals));
     }
 }

@@ -47,6 +47,12 @@ public sealed class Lookout : RaceSystem
     /// <summary>A board alongside only lets a gybe go ahead when the gybe leads away from it at this rate or more, m/s (model value).</summary>
     public const double GybeOpeningMs = 0.5;
     /// <summary>
+    /// A rider whose tack is put off by a board alongside to windward on the same tack (within this centre distance, m)
+    /// for this long after the start signal (s) sheets out to drop astern of it and tacks across its wake (model values:
+    /// two boards beating side by side otherwise sailed on together far past the layline, issue 12).
+    /// </summary>
+    public const double TackBlockedNearM = 2 * TurnTooCloseM, TackWaitS = 3;
+    /// <summary>
     /// A beating give-way rider (this close to the wind or closer, deg) may tack away onto the best VMG angle of the other
     /// tack, when no board is within <see cref="TurnAwayMinM"/>: at this share of the present speed over the look
     /// ahead, charged as this many degrees of turn (common practice; RRS 13 and 15; model values).
@@ -99,7 +105,7 @@ public sealed class Lookout : RaceSystem
         _threats.Clear();
         var s = c.Snapshot;
         double sinH = Math.Sin(h), cosH = Math.Cos(h);
-        var probe = gybing ? new Judge.GapProbe(c, k, h, sinH, cosH, v) : default;
+        var probe = turning ? new Judge.GapProbe(c, k, h, sinH, cosH, v) : default;
         foreach (int j in c.Grid.Neighbours(k))
         {
             long key = RaceContext.PairKey(k, j);
@@ -118,13 +124,13 @@ public sealed class Lookout : RaceSystem
             // (two boards running side by side would otherwise each block the other's gybe: issue 12).
             // A gybe that crosses another board's course goes ahead only with a wide gap all through it.
             if (gybing && probe.Gap(c, j, GybeCrossM) >= GybeCrossM) continue;
+            // A tack by the windward one of two boards alongside on the same tack heads up away from the leeward one and
+            // slows while it sails on past: it goes ahead if the hulls keep the gap a gybe leading away keeps.
+            if (turning && !gybing && SameTack(s, k, j) && WindwardOffset(s, k, j) > 0 && ClearThrough(c, s, k, j, in probe)) continue;
             if (gybing && Opening(s, k, sinH, cosH, v, j))
             {
                 // The gap a gybe leading away must keep: the clearance, or what there is now when the boards are closer.
-                double now = RightOfWay.HullDistance(new RuleBoard(s.X[k], s.Y[k], Unit.RadToDeg(s.Heading[k]), c.Fleet.LengthM[k]),
-                                                     new RuleBoard(s.X[j], s.Y[j], Unit.RadToDeg(s.Heading[j]), c.Fleet.LengthM[j]));
-                double need = Math.Min(GybeClearM, now - 0.3);
-                if (now >= GybeMinGapM && probe.Gap(c, j, need) >= need) continue;
+                if (ClearThrough(c, s, k, j, in probe)) continue;
             }
             bool mine = keep == k || turning && keep >= 0;
             bool lastMoment = keep == j && t < LastMomentS && !s.KeepingClear[j];
@@ -134,6 +140,30 @@ public sealed class Lookout : RaceSystem
             if (firstOther < 0) { firstOther = j; firstRule = keep == k ? rule : turning ? Judge.Rule16 : Judge.Rule14; }
         }
         return _threats.Count > 0;
+    }
+
+    /// <summary>Whether the hulls of k and j are at least <see cref="GybeMinGapM"/> apart now and keep the clearance (or
+    /// what there is now, if less) all through k's turn as the probe projects it.</summary>
+    static bool ClearThrough(RaceContext c, StepSnapshot s, int k, int j, in Judge.GapProbe probe)
+    {
+        // The gap a turn leading away must keep: the clearance, or what there is now when the boards are closer.
+        double now = RightOfWay.HullDistance(new RuleBoard(s.X[k], s.Y[k], Unit.RadToDeg(s.Heading[k]), c.Fleet.LengthM[k]),
+                                             new RuleBoard(s.X[j], s.Y[j], Unit.RadToDeg(s.Heading[j]), c.Fleet.LengthM[j]));
+        double need = Math.Min(GybeClearM, now - 0.3);
+        return now >= GybeMinGapM && probe.Gap(c, j, need) >= need;
+    }
+
+    /// <summary>Whether k and j sail on the same tack (the side the wind each feels comes over).</summary>
+    static bool SameTack(StepSnapshot s, int k, int j) =>
+        Math.Sign(Sailing.SignedAngle(s.FromDeg[k], s.Heading[k])) == Math.Sign(Sailing.SignedAngle(s.FromDeg[j], s.Heading[j]));
+
+    /// <summary>How far k is to windward of j's track, m (negative: to leeward), across j's track on the side the wind comes from.</summary>
+    static double WindwardOffset(StepSnapshot s, int k, int j)
+    {
+        double nx = s.TrackCos[j], ny = -s.TrackSin[j]; // right-hand normal of j's track
+        double from = Unit.DegToRad(s.FromDeg[j]);
+        if (nx * Math.Sin(from) + ny * Math.Cos(from) < 0) { nx = -nx; ny = -ny; }
+        return (s.X[k] - s.X[j]) * nx + (s.Y[k] - s.Y[j]) * ny;
     }
 
     /// <summary>Whether board j draws away from board k making good the track whose sine and cosine are given at v (range opening at <see cref="GybeOpeningMs"/> or more).</summary>
@@ -173,7 +203,7 @@ public sealed class Lookout : RaceSystem
             gw.Heading = s.Track[k]; gw.Power = 1;
             return;
         }
-        if (!gybing) gw.DeferS = double.NaN;
+        if (!turning) gw.DeferS = double.NaN;
         else if (double.IsNaN(gw.DeferS)) gw.DeferS = c.Time;
         double cur = s.Track[k];
         double baseH = want;
@@ -188,7 +218,11 @@ public sealed class Lookout : RaceSystem
                 gw.Heading = cur;
                 // A gybe blocked by a board alongside for more than a moment: the rider sheets out and drops astern of
                 // it, to gybe across its wake, rather than sail on past the layline beside it.
-                gw.Power = gybing && c.Time - gw.DeferS >= GybeWaitS ? 0 : 1;
+                // So does one whose tack a board alongside to windward on the same tack has blocked for a few seconds.
+                bool dropAstern = gybing ? c.Time - gw.DeferS >= GybeWaitS
+                    : c.Time > 0 && c.Time - gw.DeferS >= TackWaitS && SameTack(s, k, firstOther) && WindwardOffset(s, k, firstOther) < 0
+                      && Math.Sqrt((s.X[k] - s.X[firstOther]) * (s.X[k] - s.X[firstOther]) + (s.Y[k] - s.Y[firstOther]) * (s.Y[k] - s.Y[firstOther])) < TackBlockedNearM;
+                gw.Power = dropAstern ? 0 : 1;
                 return;
             }
         }

@@ -6,7 +6,8 @@ namespace CourseSim.Rules;
 /// <summary>
 /// Serving a one-turn penalty (the rider's part; the judge awards it in ContactSystem) (RRS 44.1 as changed by Appendix B), as soon as the board is racing and well clear of
 /// others: one full turn made of a tack and a gybe, the same way round: head up to close-hauled, tack, bear away, gybe
-/// back onto the original tack. The tack and the gybe each wait until the rider is well clear.
+/// back onto the original tack. The tack and the gybe each wait until the rider is well clear; waiting, a rider with a
+/// board ahead or level sheets out to let it go.
 /// </summary>
 public static class PenaltyTurn
 {
@@ -38,6 +39,7 @@ public static class PenaltyTurn
                 break;
             case 2:
                 h = crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == s ? At(s * 45) : At(-s * 45);
+                if (crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == s && DropsBack(c, b, pose)) pw = 0;
                 if (man.Kind == Manoeuvre.None && Math.Sign(twa) == -s) pen.Stage = 3;
                 break;
             case 3:
@@ -46,6 +48,7 @@ public static class PenaltyTurn
                 break;
             case 4:
                 h = crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == -s ? At(-s * 150) : At(s * 150);
+                if (crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == -s && DropsBack(c, b, pose)) pw = 0;
                 if (man.Kind == Manoeuvre.None && Math.Sign(twa) == s)
                 {
                     pen.Stage = 0; pen.Owed--; pen.Taken++; per.LastTurnS = c.Time;
@@ -53,5 +56,25 @@ public static class PenaltyTurn
                 }
                 break;
         }
+    }
+
+    /// <summary>
+    /// Waiting to be well clear for the tack or gybe of a penalty, a rider with a board within <see cref="WellClearM"/>
+    /// that is ahead (or level, and earlier in the fleet's order) sheets out and lets it go: two boards that both owe a
+    /// penalty otherwise sailed on side by side, each waiting for the other, far past the mark (issue 12; RRS 44.1 asks
+    /// for the turn as soon as possible; model value: level means within a metre along the heading).
+    /// </summary>
+    static bool DropsBack(RaceContext c, int b, in Pose pose)
+    {
+        var s = c.Snapshot;
+        double fx = Math.Sin(pose.Heading), fy = Math.Cos(pose.Heading);
+        foreach (int j in c.Grid.Neighbours(b))
+        {
+            double dx = s.X[j] - s.X[b], dy = s.Y[j] - s.Y[b];
+            if (dx * dx + dy * dy >= WellClearM * WellClearM) continue;
+            double ahead = dx * fx + dy * fy;
+            if (ahead > 1 || Math.Abs(ahead) <= 1 && j < b) return true;
+        }
+        return false;
     }
 }
