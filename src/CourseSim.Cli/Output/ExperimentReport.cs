@@ -141,7 +141,8 @@ public static class ExperimentReport
         Row("line advantage of the right end, mean m", x => Iv(x.LineBiasM, "0"));
         Row("right (boat) end favoured, share of races", x => Pct(x.RightEndFavoured));
         Row("first beat: share of boards going left, mean over races", x => Pct(x.ShareLeft));
-        Row("first beat: mean place right minus left (+ left paid)", x => Iv(x.SidePlaceDiff, "0.00") + $", {x.SideRaces} races");
+        Row("first beat, races with both sides sailed: first finisher went left", x => $"{Pct(x.WinnerLeft)} of {x.SideRaces} ({F(100 * x.LeftInSplitRaces, "0")} % of their boards went left)");
+        Row("first beat: mean place right minus left (+ left paid), no interval", x => F(x.SidePlaceDiff.Estimate, "0.00"));
         Row("contacts per race", x => Iv(Count(x.ContactsPerRace), "0.00"));
         Row("of which avoidable, per race", x => Iv(Count(x.AvoidablePerRace), "0.00"));
         Row("peak boards within 30 m of a mark, mean", x => F(x.PeakAtMark));

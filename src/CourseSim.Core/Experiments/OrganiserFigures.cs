@@ -19,12 +19,15 @@ public sealed record LegTime(string Label, Interval MinutesT);
 /// race duration (first and last finisher), the share of races with no finisher within the time limit and with a board
 /// not finishing by it, the share within 10 % of a target duration, the signed line bias over the start sequence and the
 /// share of races each end was favoured, side fairness on the first beat, leg times by leg, contacts and bunching.
-/// Means over races take Student's t interval; shares of races the modified Wilson interval; contacts per race Garwood's
-/// Poisson interval (Statistics).
+/// Means over races take Student's t interval; shares of races the modified Wilson interval; the share of boards going
+/// left a Wilson interval for clustered shares; contacts per race Garwood's Poisson interval (Statistics). Side fairness
+/// is judged by the share of races (both sides sailed) whose first finisher went left, beside the share of boards that
+/// went left in them (what it would be if the sides were even); the mean place difference is shown without an interval
+/// (with a few boards a side it takes a handful of values, and a t interval over it does not hold its level).
 /// </summary>
 public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFinisherS, Spread LastFinisherS, Interval NoFinisher, Interval SomeNotFinished,
     Interval? WithinTarget, Interval LineBiasDeg, Interval LineBiasM, Interval RightEndFavoured, Interval ShareLeft, Interval SidePlaceDiff,
-    int SideRaces, IReadOnlyList<LegTime> Legs, Interval ContactsPerRace, Interval AvoidablePerRace, double PeakAtMark, double CloseArrivals)
+    int SideRaces, Interval WinnerLeft, double LeftInSplitRaces, IReadOnlyList<LegTime> Legs, Interval ContactsPerRace, Interval AvoidablePerRace, double PeakAtMark, double CloseArrivals)
 {
     /// <summary>Share of the target duration within which a race counts as on target.</summary>
     public const double TargetTolerance = 0.1;
@@ -53,16 +56,22 @@ public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFin
             : Share(first.Count(x => double.IsFinite(x) && Math.Abs(x - targetS) <= TargetTolerance * targetS), n);
         var bias = races.Select(m => m.LineBiasDeg).ToList();
         // Side fairness, per race: the mean place (scored) of the boards that went right minus of those that went left
-        // (positive: the left paid); races where both sides were sailed.
+        // (positive: the left paid), and whether the first finisher went left; races where both sides were sailed.
         var byRace = rows.GroupBy(r => r.Race).ToList();
         var sideDiff = new List<double>();
-        var shareLeft = new List<double>();
+        var leftK = new List<int>(); var sidedN = new List<int>();
+        int winnerLeft = 0, split = 0; double leftShareSum = 0;
         foreach (var g in byRace)
         {
             var l = g.Where(r => r.FirstBeatSide == "left").ToList();
             var r = g.Where(r => r.FirstBeatSide == "right").ToList();
-            if (l.Count + r.Count > 0) shareLeft.Add((double)l.Count / (l.Count + r.Count));
-            if (l.Count > 0 && r.Count > 0) sideDiff.Add(r.Average(x => (double)x.PlaceScored) - l.Average(x => (double)x.PlaceScored));
+            leftK.Add(l.Count); sidedN.Add(l.Count + r.Count);
+            if (l.Count == 0 || r.Count == 0) continue;
+            var winner = g.Where(x => x.Finished && x.FirstBeatSide is "left" or "right").MinBy(x => x.PlaceScored);
+            if (winner is null) continue;
+            sideDiff.Add(r.Average(x => (double)x.PlaceScored) - l.Average(x => (double)x.PlaceScored));
+            split++; leftShareSum += (double)l.Count / (l.Count + r.Count);
+            if (winner.FirstBeatSide == "left") winnerLeft++;
         }
         // Leg times: each race's mean over its finishers, then the mean over races.
         var labels = races.Select(m => m.LegLabels).FirstOrDefault(x => x.Length > 0) ?? [];
@@ -80,7 +89,7 @@ public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFin
         return new OrganiserFigures(variant, n, Spread.Of(first), Spread.Of(races.Select(m => m.LastFinisherS)),
             Share(races.Count(m => m.Finishers == 0), n), Share(races.Count(m => m.Finishers < m.Boards), n), target,
             MeanT(bias), MeanT(races.Select(m => m.LineBiasM).ToList()), Share(bias.Count(b => b > 0), n),
-            MeanT(shareLeft), MeanT(sideDiff), sideDiff.Count, legs,
+            Statistics.ClusteredShare(leftK, sidedN), new Interval(sideDiff.Count == 0 ? double.NaN : sideDiff.Average(), double.NaN, double.NaN), sideDiff.Count, Share(winnerLeft, split), split == 0 ? double.NaN : leftShareSum / split, legs,
             Rate(races.Select(m => m.Contacts).ToList()), Rate(races.Select(m => m.AvoidableContacts).ToList()),
             n == 0 ? double.NaN : races.Average(m => m.PeakAtMark), n == 0 ? double.NaN : races.Average(m => (double)m.CloseArrivals));
     }

@@ -166,6 +166,69 @@ public class ExperimentStatisticsTests(Xunit.Abstractions.ITestOutputHelper outp
         // The win share of 10 races is a binomial count: Wilson rejects 1/2 only at 0-1 or 9-10 wins of 10 (2.1 % of the
         // time), so it is conservative there; it must not be liberal.
         Assert.True(Statistics.Wilson(hits[3], 100).Low <= 0.05, $"{names[3]}: {hits[3]} of 100");
+        OrganiserIntervalsHoldTheirLevel(spec, Path.Combine(Path.GetDirectoryName(path)!, "out"), rows);
+    }
+
+    /// <summary>
+    /// The organiser's table on the same A/A batch: every figure with an interval, for each variant's 100 experiments
+    /// of 10 races, against that variant's figure over all 1,000 races (the truth to within about a twentieth of a
+    /// 10-race interval's width). Means over races (line bias, side fairness, legs, contacts) take the t interval: the
+    /// share of intervals missing the truth must have a Wilson interval that holds 5 %. Shares of races take the Wilson
+    /// interval, whose coverage at n = 10 swings with p about the nominal level and is conservative near 0, 1/2 and 1
+    /// (Brown, Cai and DasGupta 2001, Stat Sci 16:101-133, fig. 4): it must not be liberal. So must Garwood's exact
+    /// Poisson interval for contacts per race, conservative by construction (Garwood 1936), and the clustered Wilson
+    /// interval for the share of boards going left.
+    /// </summary>
+    void OrganiserIntervalsHoldTheirLevel(ExperimentSpec spec, string outDir, IReadOnlyList<RaceRow> rows)
+    {
+        var metrics = BatchRunner.ReadMetrics(spec, outDir);
+        // The target: the median winner's time, so that about a share of races is within 10 % of it (not 0 or 1).
+        double target = Statistics.Quantile(metrics.Select(m => m.Metrics.FirstFinisherS).Where(double.IsFinite).Order().ToArray(), 0.5);
+        var means = new Dictionary<string, (int Miss, int Of)>();
+        var shares = new Dictionary<string, (int Miss, int Of)>();
+        var exact = new Dictionary<string, (int Miss, int Of)>();
+        void Count(Dictionary<string, (int Miss, int Of)> d, string name, Interval iv, double truth)
+        {
+            if (!double.IsFinite(iv.Low) || !double.IsFinite(iv.High) || !double.IsFinite(truth)) return;
+            var (miss, of) = d.GetValueOrDefault(name);
+            d[name] = (miss + (iv.Low <= truth && truth <= iv.High ? 0 : 1), of + 1);
+        }
+        foreach (var v in spec.Variants.Select(x => x.Name))
+        {
+            OrganiserFigures Of(Func<int, bool> take) => OrganiserFigures.Of(v,
+                metrics.Where(m => m.Variant == v && take(m.Race)).OrderBy(m => m.Race).Select(m => m.Metrics).ToList(),
+                rows.Where(r => r.Variant == v && take(r.Race)).ToList(), target);
+            var all = Of(_ => true);
+            Assert.Equal(1000, all.Races);
+            for (int k = 0; k < 100; k++)
+            {
+                var e = Of(r => r / 10 == k);
+                Assert.Equal(10, e.Races);
+                Count(means, "line bias, deg", e.LineBiasDeg, all.LineBiasDeg.Estimate);
+                Count(means, "line advantage, m", e.LineBiasM, all.LineBiasM.Estimate);
+                Count(shares, "share of boards going left", e.ShareLeft, all.ShareLeft.Estimate);
+                Count(shares, "first finisher went left", e.WinnerLeft, all.WinnerLeft.Estimate);
+                Assert.True(double.IsNaN(e.SidePlaceDiff.Low), "the mean place difference is shown without an interval");
+                for (int l = 0; l < all.Legs.Count; l++) Count(means, $"leg {l + 1} time", e.Legs[l].MinutesT, all.Legs[l].MinutesT.Estimate);
+                Count(exact, "contacts per race", e.ContactsPerRace, all.ContactsPerRace.Estimate);
+                Count(exact, "avoidable contacts per race", e.AvoidablePerRace, all.AvoidablePerRace.Estimate);
+                Count(shares, "right end favoured", e.RightEndFavoured, all.RightEndFavoured.Estimate);
+                Count(shares, "within 10 % of the target", e.WithinTarget!.Value, all.WithinTarget!.Value.Estimate);
+                Count(shares, "a board not finished", e.SomeNotFinished, all.SomeNotFinished.Estimate);
+                Count(shares, "no finisher", e.NoFinisher, all.NoFinisher.Estimate);
+            }
+            output.WriteLine($"{v}: over 1,000 races line bias {all.LineBiasDeg.Estimate:F2} deg, share left {all.ShareLeft.Estimate:F3}, " +
+                $"right minus left {all.SidePlaceDiff.Estimate:F2}, winner left {all.WinnerLeft.Estimate:F3} in {all.SideRaces} races, contacts {all.ContactsPerRace.Estimate:F3}/race, within target {all.WithinTarget!.Value.Estimate:F3}, " +
+                $"right end {all.RightEndFavoured.Estimate:F3}, not finished {all.SomeNotFinished.Estimate:F3}");
+        }
+        foreach (var (name, (miss, of)) in means.Concat(shares).Concat(exact)) output.WriteLine($"{name}: missed the 1,000-race figure in {miss} of {of}");
+        foreach (var (name, (miss, of)) in means)
+        {
+            var rate = Statistics.Wilson(miss, of);
+            Assert.True(of >= 150 && rate.Low <= 0.05 && 0.05 <= rate.High, $"{name}: missed in {miss} of {of}");
+        }
+        foreach (var (name, (miss, of)) in shares.Concat(exact))
+            Assert.True(of >= 100 && Statistics.Wilson(miss, of).Low <= 0.05, $"{name}: missed in {miss} of {of}");
     }
 
     [Fact]
