@@ -60,7 +60,7 @@ public static class PenaltyTurn
 
     /// <summary>
     /// Waiting to be well clear for the tack or gybe of a penalty, a rider with a board within <see cref="WellClearM"/>
-    /// that is ahead (or level, and earlier in the fleet's order) sheets out and lets it go: two boards that both owe a
+    /// that is ahead (or level, and earlier in the fleet's canonical order of ids, so that the file's order changes nothing) sheets out and lets it go: two boards that both owe a
     /// penalty otherwise sailed on side by side, each waiting for the other, far past the mark (issue 12; RRS 44.1 asks
     /// for the turn as soon as possible; model value: level means within a metre along the heading).
     /// </summary>
@@ -73,7 +73,7 @@ public static class PenaltyTurn
             double dx = s.X[j] - s.X[b], dy = s.Y[j] - s.Y[b];
             if (dx * dx + dy * dy >= WellClearM * WellClearM) continue;
             double ahead = dx * fx + dy * fy;
-            if (ahead > 1 || Math.Abs(ahead) <= 1 && j < b) return true;
+            if (ahead > 1 || Math.Abs(ahead) <= 1 && c.Fleet.Rank[j] < c.Fleet.Rank[b]) return true;
         }
         return false;
     }

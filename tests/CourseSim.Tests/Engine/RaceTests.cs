@@ -40,7 +40,7 @@ public class RaceTests
     [Fact]
     public async Task SameScenarioAndSeedGiveIdenticalBytesEvenUnderLoad()
     {
-        var setup = EngineTestKit.Demo(["race.time_limit_s=400"]);
+        var setup = EngineTestKit.Demo(["race.time_limit_s=200"]);
         byte[] Once()
         {
             var race = new Race(setup);
@@ -55,7 +55,7 @@ public class RaceTests
         Assert.Equal(SHA256.HashData(first), SHA256.HashData(second));
         foreach (var o in others) Assert.Equal(first, o);
         // A different seed changes the race.
-        var other = new Race(EngineTestKit.Demo(["race.time_limit_s=400"], seed: 8));
+        var other = new Race(EngineTestKit.Demo(["race.time_limit_s=200"], seed: 8));
         Assert.NotEqual(first, ReplayFile.Write(other, other.Run()));
     }
 

