@@ -35,6 +35,14 @@ public sealed class BoardPhysics : IBoardModel
     /// (from memory: two 3 cm boom tubes about 2 m long at a drag coefficient of 1.2 make 0.14 m2 broadside; the mast is
     /// in the sail's profile drag).</summary>
     public const double RigWindageM2 = 0.12;
+    /// <summary>Drag coefficient of the flagging sail on its area while the rider steps round the mast in a tack (Hoerner
+    /// 1965, "Fluid-Dynamic Drag", on flags, as quoted on the SEAint list (seaintarchive.org 2000b/msg00941): about 0.1
+    /// for the skin friction and flutter of a flag; the battened sail held by the mast is taken to flag like one).</summary>
+    public const double FlaggingSailDragCoefficient = 0.1;
+    /// <summary>Drag area of a 75 kg rider standing upright while stepping round the mast, m2 (from memory: a standing adult
+    /// facing the wind shows about 0.7 m2 of frontal area at a drag coefficient of about 1.2). Scaled by the rider's
+    /// (mass / 75 kg)^(2/3), as frontal area scales for bodies of one shape (model choice).</summary>
+    public const double StandingRiderDragAreaM2 = 0.85;
     const double FinStep = 0.05, FinMax = 40;
 
     public Equipment Equipment { get; }
@@ -52,6 +60,7 @@ public sealed class BoardPhysics : IBoardModel
     /// <summary>Boom height above the mast foot, m (<see cref="RiderModel.BoomHeightM"/>).</summary>
     public double BoomHeightM { get; }
     readonly double _windage; // (rider + rig windage) / sail area
+    readonly double _crossingDrag; // (flagging sail + standing rider + rig windage) / sail area
     readonly double[] _finProfile; // fin profile drag coefficient by water speed
     // Fin constants: 0.5 rho A, the ventilation lift coefficient, the induced-drag factor 1/(pi e AR), 1/slope, the leeway cap.
     readonly double _finQ, _finMaxLift, _finInduced, _finInvSlope, _finLeewayCap;
@@ -72,6 +81,8 @@ public sealed class BoardPhysics : IBoardModel
         RigHeightM = DeckHeightM + Sail.CentreOfEffortM;
         BoomHeightM = Math.Min(RiderModel.BoomHeightM, Sail.CentreOfEffortM);
         _windage = (eq.Rider.DragAreaM2 + RigWindageM2) / Sail.AreaM2;
+        double standing = StandingRiderDragAreaM2 * Math.Pow(eq.Rider.MassKg / 75.0, 2.0 / 3.0);
+        _crossingDrag = FlaggingSailDragCoefficient + (standing + RigWindageM2) / Sail.AreaM2;
         _finProfile = new double[(int)(FinMax / FinStep) + 2];
         for (int i = 0; i < _finProfile.Length; i++) _finProfile[i] = Fin.ProfileDrag(i * FinStep, WaterViscosity);
         _finQ = 0.5 * WaterDensity * Fin.AreaM2;
@@ -93,6 +104,10 @@ public sealed class BoardPhysics : IBoardModel
         double sailSide = c.Lift * co + c.Drag * s;
         return new RigCoefficients(c.Lift * s - (c.Drag + _windage) * co, sailSide + _windage * s, Math.Abs(sailSide));
     }
+
+    /// <summary>The flagging sail and the upright rider while crossing in a tack: drag along the apparent wind (per q A).</summary>
+    public RigCoefficients CrossingRig(double betaRad) =>
+        new(-_crossingDrag * Math.Cos(betaRad), _crossingDrag * Math.Sin(betaRad), 0);
 
     /// <summary>The rider sheets between just below luffing and 95 deg past the apparent wind, the boom no closer than <see cref="MinBoomAngleDeg"/>.</summary>
     public (double Lo, double Hi) SheetingRange(double betaRad)

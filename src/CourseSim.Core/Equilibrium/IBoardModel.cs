@@ -35,6 +35,13 @@ public interface IBoardModel
     /// <summary>Rig force coefficients at apparent wind angle beta and attack angle alpha (rad).</summary>
     RigCoefficients Rig(double betaRad, double alphaRad);
 
+    /// <summary>
+    /// Rig force coefficients (per q A) while the rider steps round the mast in a tack: the sail flagging and the rider
+    /// standing upright, pure drag along the apparent wind at angle beta (rad) to the motion (docs/physics.md, "The board
+    /// model"). SailSide is 0: the flagging sail makes no heeling moment the rider must hold.
+    /// </summary>
+    RigCoefficients CrossingRig(double betaRad);
+
     /// <summary>Least and largest attack angle (rad) the rider can sheet to at apparent wind angle beta (rad); hi &lt;= lo means head to wind.</summary>
     (double Lo, double Hi) SheetingRange(double betaRad);
 

@@ -183,6 +183,14 @@ public sealed class RigDynamics
         return Lookup(i, x - i, f, 0.5 * _rhoAir * aws * aws * SailAreaM2);
     }
 
+    /// <summary>Rig and rider force while the rider steps round the mast in a tack (the board model's
+    /// <see cref="IBoardModel.CrossingRig"/> scaled by q A): drive (negative: drag) and side force, no heel.</summary>
+    public SailForce Crossing(double aws, double betaRad)
+    {
+        var c = Physics.CrossingRig(betaRad);
+        double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
+        return new SailForce(qa * c.Drive, qa * c.Side, 0, 0);
+    }
 
     /// <summary>The rider's attack angle (rad) at apparent wind angle beta (rad, 0..pi) and sheet fraction f.</summary>
     public double AttackAngle(double betaRad, double f)

@@ -7,8 +7,8 @@ namespace CourseSim.Tests.Engine;
 /// Tack and gybe losses come out of the dynamics (no fixed penalty). Measured as the distance made good along the wind
 /// lost against the same board sailing on without the manoeuvre, divided by its VMG: seconds of VMG lost.
 /// Ranges of the trade, from memory (no published table of windsurf manoeuvre losses was found): a tack costs a
-/// club-to-good racer about 2 to 12 s of upwind VMG (the board drops off the plane while the rider steps round the mast
-/// and must be pumped back up to speed); a planing carve gybe costs about 0.5 to 5 s of downwind VMG and the board keeps
+/// club-to-good racer about 2 to 12 s of upwind VMG, planing or not (the board nearly stops while the rider steps round
+/// the mast and must be sailed and pumped back up to speed); a planing carve gybe costs about 0.5 to 5 s of downwind VMG and the board keeps
 /// moving through it (common practice: a carve gybe is made without stopping).
 /// </summary>
 public class ManoeuvreTests(Xunit.Abstractions.ITestOutputHelper output)
@@ -54,21 +54,28 @@ public class ManoeuvreTests(Xunit.Abstractions.ITestOutputHelper output)
         }
     }
 
-    // Planing upwind (heavy-86 at 20 kn) the tack drops the board off the plane and the loss is in the trade's 2-12 s
-    // (from memory). Off the plane (12-14 kn, both riders sail upwind displacing) the model gives 1.2-1.9 s, under that
-    // range, and at 8 kn 0.8 s: listed as failing in docs/validation.md. The floor here is 1 s at 12-14 kn, so these
-    // tacks cannot fall back to tenths unnoticed.
+    // Planing upwind (heavy-86 at 20 kn) and off the plane (12-14 kn, both riders sail upwind displacing; light-66 at 8 kn,
+    // light wind) a tack costs 2 to 12 s of VMG: the trade's range, from memory. Corroborating order of magnitude for a
+    // displacement boat: one GPS-measured tack of a 36 ft keelboat cost "just under 5 seconds" to windward, speed falling
+    // from 6 kn to under 4 (sailinganarchy.com, "biggest loser", 11 Aug 2014). Off the plane the loss comes from the drag
+    // of the flagging sail and the upright rider while crossing (BoardPhysics.CrossingRig) and the bow pressed down at
+    // the mast foot (HullModel.CrossingResistance): the board nearly stops, as a tack off the plane does, and is sailed
+    // and pumped back up to speed.
     [Theory]
-    [InlineData("heavy-86.toml", 20, 2.0)]
-    [InlineData("light-66.toml", 14, 1.0)]
-    [InlineData("heavy-86.toml", 12, 1.0)]
-    public void ATackCostsSecondsOfUpwindVmgInTheTradesRange(string equipment, double kn, double floorS)
+    [InlineData("heavy-86.toml", 20)]
+    [InlineData("light-66.toml", 14)]
+    [InlineData("heavy-86.toml", 12)]
+    [InlineData("light-66.toml", 8)]
+    public void ATackCostsSecondsOfUpwindVmgInTheTradesRange(string equipment, double kn)
     {
         var (loss, minShare, tacks, gybes) = Loss(equipment, kn, upwind: true);
         output.WriteLine($"{equipment} {kn} kn tack: {loss:F2} s of VMG, least speed {minShare:P0} of the entry speed");
         Assert.Equal(1, tacks);
         Assert.Equal(0, gybes);
-        Assert.InRange(loss, floorS, 12);
+        Assert.InRange(loss, 2, 12);
+        // A tack stalls the board while the rider steps round the mast (common practice: "a tack will stall the board
+        // momentarily while you sneak around the front of the sail", seabreeze.com.au forum, "Advice on jibing vs tacking").
+        Assert.True(minShare < 0.5, $"speed fell only to {minShare:P0} of the entry speed");
     }
 
     [Theory]

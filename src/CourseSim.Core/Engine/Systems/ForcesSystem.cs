@@ -28,7 +28,7 @@ public sealed class ForcesSystem : RaceSystem
             double finDrag = rig.Fin(t.Side, v, out double leeway, out _);
             var hull = rig.Hull;
             double hullDrag = hull.ResistanceAt(v, out double lift);
-            if (man.Kind == Manoeuvre.Tack && man.Phase == 1) { hullDrag = Math.Max(hullDrag, hull.UnplanedResistance(v)); lift = 0; }
+            if (man.Kind == Manoeuvre.Tack && man.Phase == 1) { hullDrag = Math.Max(hullDrag, hull.CrossingResistance(v)); lift = 0; }
             t.FinDrag = finDrag; t.HullDrag = hullDrag;
             // Planing with hysteresis (docs/physics.md): on the plane from the planing Froude number, off it below the
             // drop-off one; stepping round the mast in a tack takes the board off the plane.
