@@ -1,3 +1,4 @@
+using CourseSim.Engine;
 using CourseSim.Tests.Settings;
 
 namespace CourseSim.Tests.Engine;
