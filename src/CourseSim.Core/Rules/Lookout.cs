@@ -105,7 +105,7 @@ public sealed class Lookout : RaceSystem
         _threats.Clear();
         var s = c.Snapshot;
         double sinH = Math.Sin(h), cosH = Math.Cos(h);
-        var probe = turning ? new Judge.GapProbe(c, k, h, sinH, cosH, v) : default;
+        var probe = gybing ? new Judge.GapProbe(c, k, h, sinH, cosH, v) : default;
         foreach (int j in c.Grid.Neighbours(k))
         {
             long key = RaceContext.PairKey(k, j);
@@ -124,9 +124,6 @@ public sealed class Lookout : RaceSystem
             // (two boards running side by side would otherwise each block the other's gybe: issue 12).
             // A gybe that crosses another board's course goes ahead only with a wide gap all through it.
             if (gybing && probe.Gap(c, j, GybeCrossM) >= GybeCrossM) continue;
-            // A tack by the windward one of two boards alongside on the same tack heads up away from the leeward one and
-            // slows while it sails on past: it goes ahead if the hulls keep the gap a gybe leading away keeps.
-            if (turning && !gybing && SameTack(s, k, j) && WindwardOffset(s, k, j) > 0 && ClearThrough(c, s, k, j, in probe)) continue;
             if (gybing && Opening(s, k, sinH, cosH, v, j))
             {
                 // The gap a gybe leading away must keep: the clearance, or what there is now when the boards are closer.
