@@ -61,7 +61,7 @@ public static class BatchSummary
     {
         var c = new Dictionary<string, List<(string, byte[])>>();
         if (ExperimentCharts.Intervals(b.Pairs) is { } iv) c["Paired differences"] = [("paired differences", iv)];
-        c["For race organisers"] = [("race durations", ExperimentCharts.Durations(b.Organisers, b.Rows, b.Spec)), ("side fairness", ExperimentCharts.Sides(b.Spec, b.Rows))];
+        c["For race organisers"] = [("race durations", ExperimentCharts.Durations(b.Organisers, b.Rows, b.Spec)), ("side fairness", ExperimentCharts.Sides(b.Organisers))];
         var riders = new List<(string, byte[])>();
         foreach (var r in b.Riders)
             if (ExperimentCharts.Crossover(r, ExperimentReport.PolarCrossovers(b.Spec, r.A, r.B).Select(x => (x.Measure, x.TwsKn)).ToList()) is { } png)

@@ -77,32 +77,47 @@ public static class ExperimentCharts
 
     /// <summary>Side fairness: mean place (scored) of the boards that went left and right on the first beat, each race's
     /// mean averaged over races, with 95 % t intervals as error bars.</summary>
-    public static byte[] Sides(ExperimentSpec spec, IReadOnlyList<RaceRow> rows)
+    public static byte[] Sides(IReadOnlyList<OrganiserFigures> figures)
     {
         var plt = new Plot();
         var bars = new List<Bar>();
-        for (int i = 0; i < spec.Variants.Count; i++)
+        for (int i = 0; i < figures.Count; i++)
+            foreach (var (iv, k) in new[] { (figures[i].ShareLeft, 0), (figures[i].WinnerLeft, 1) })
+                if (double.IsFinite(iv.Estimate)) bars.Add(new Bar { Position = 3 * i + k, Value = 100 * iv.Estimate, FillColor = PolarCharts.Palette[k] });
+        // Bars first, whiskers and ticks over them.
+        plt.Add.Bars(bars);
+        for (int i = 0; i < figures.Count; i++)
         {
-            var vr = rows.Where(r => r.Variant == spec.Variants[i].Name).GroupBy(r => r.Race).ToList();
-            foreach (var (side, k) in new[] { ("left", 0), ("right", 1) })
+            var o = figures[i];
+            // The share of all boards that went left (clustered Wilson) and of first finishers in races where both sides
+            // were sailed (modified Wilson): with even sides the second is about the share of boards that went left in
+            // those races, drawn as a tick.
+            foreach (var (iv, k) in new[] { (o.ShareLeft, 0), (o.WinnerLeft, 1) })
             {
-                var perRace = vr.Select(g => g.Where(r => r.FirstBeatSide == side).Select(r => (double)r.PlaceScored).ToList())
-                    .Where(x => x.Count > 0).Select(x => x.Average()).ToList();
-                var m = OrganiserFigures.MeanT(perRace);
-                if (!double.IsFinite(m.Estimate)) continue;
-                double err = double.IsFinite(m.High) ? m.High - m.Estimate : 0;
-                bars.Add(new Bar { Position = 3 * i + k, Value = m.Estimate, Error = err, FillColor = PolarCharts.Palette[k] });
+                if (!double.IsFinite(iv.Estimate)) continue;
+                double x = 3 * i + k;
+                if (!double.IsFinite(iv.Low) || !double.IsFinite(iv.High)) continue;
+                // Wilson intervals are not symmetric: whiskers drawn as lines with caps.
+                var w = plt.Add.Line(x, 100 * iv.Low, x, 100 * iv.High); w.LineColor = Colors.Black; w.LineWidth = 1.5f;
+                foreach (double y in new[] { iv.Low, iv.High })
+                {
+                    var cap = plt.Add.Line(x - 0.15, 100 * y, x + 0.15, 100 * y); cap.LineColor = Colors.Black; cap.LineWidth = 1.5f;
+                }
+            }
+            if (double.IsFinite(o.LeftInSplitRaces))
+            {
+                var even = plt.Add.Line(3 * i + 0.55, 100 * o.LeftInSplitRaces, 3 * i + 1.45, 100 * o.LeftInSplitRaces);
+                even.LineColor = Colors.Black; even.LinePattern = LinePattern.Dashed; even.LineWidth = 2;
             }
         }
-        plt.Add.Bars(bars);
-        plt.Legend.ManualItems.Add(new LegendItem { LabelText = "went left", FillColor = PolarCharts.Palette[0] });
-        plt.Legend.ManualItems.Add(new LegendItem { LabelText = "went right", FillColor = PolarCharts.Palette[1] });
-        plt.ShowLegend(Alignment.UpperRight);
-        plt.Axes.Bottom.SetTicks(Enumerable.Range(0, spec.Variants.Count).Select(i => 3.0 * i + 0.5).ToArray(), spec.Variants.Select(v => v.Name).ToArray());
-        plt.Title("Side fairness: mean place by side taken on the first beat (95 % interval; lower is better)");
-        plt.YLabel("mean place");
-        // Room above the tallest error bar for the legend.
-        plt.Axes.SetLimitsY(0, Math.Max(1, bars.Select(x => x.Value + x.Error).DefaultIfEmpty(1).Max() * 1.3));
+        plt.Legend.ManualItems.Add(new LegendItem { LabelText = "boards that went left", FillColor = PolarCharts.Palette[0] });
+        plt.Legend.ManualItems.Add(new LegendItem { LabelText = "first finishers that went left (races with both sides sailed)", FillColor = PolarCharts.Palette[1] });
+        plt.Legend.ManualItems.Add(new LegendItem { LabelText = "even sides: boards that went left in those races", LineColor = Colors.Black, LinePattern = LinePattern.Dashed, LineWidth = 2 });
+        plt.ShowLegend(Edge.Bottom);
+        plt.Axes.Bottom.SetTicks(Enumerable.Range(0, figures.Count).Select(i => 3.0 * i + 0.5).ToArray(), figures.Select(v => v.Variant).ToArray());
+        plt.Title("Side fairness on the first beat: share going left (95 % intervals)");
+        plt.YLabel("% going left");
+        plt.Axes.SetLimitsY(0, 105);
         return plt.GetImageBytes(900, 420, ImageFormat.Png);
     }
 
