@@ -147,7 +147,7 @@ public static class ExperimentReport
         Row("of which avoidable, per race", x => Iv(Count(x.AvoidablePerRace), "0.00"));
         Row("peak boards within 30 m of a mark, mean", x => F(x.PeakAtMark));
         Row("roundings within 5 s of the one before, per race", x => F(x.CloseArrivals));
-        sb.Append("\nIntervals are 95 %: means over races take Student's t; shares of races the modified Wilson interval (Brown, Cai and DasGupta 2001); the share of boards going left Wilson's with the races' clustering allowed for (Kish's effective sample size); contacts per race Garwood's exact Poisson interval. Race duration: from the signal to the first and to the last finisher. ")
+        sb.Append("\nIntervals are 95 %: means over races take Student's t (leg times the studentised bootstrap); shares of races the modified Wilson interval (Brown, Cai and DasGupta 2001); the share of boards going left Wilson's with the races' clustering allowed for (Kish's effective sample size); contacts per race Garwood's exact Poisson interval. Race duration: from the signal to the first and to the last finisher. ")
           .Append("Line bias: the vector mean of the wind at the middle of the line over the start sequence, against the line's square; positive (veered) favours the right-hand (boat) end looking upwind, negative the left-hand (pin) end; advantage = line length x sin(bias). ")
           .Append("Side: the board's mean offset from the line to the first mark while on the first leg. Legs: beat, reach or run by their angle to the wind axis. ")
           .Append("Contacts: hulls within 1 m, judged under the racing rules (docs/tactics.md); avoidable: the keep-clear rider had seen it in time and was free to act.\n\n");

@@ -19,7 +19,7 @@ public sealed record LegTime(string Label, Interval MinutesT);
 /// race duration (first and last finisher), the share of races with no finisher within the time limit and with a board
 /// not finishing by it, the share within 10 % of a target duration, the signed line bias over the start sequence and the
 /// share of races each end was favoured, side fairness on the first beat, leg times by leg, contacts and bunching.
-/// Means over races take Student's t interval; shares of races the modified Wilson interval; the share of boards going
+/// Means over races take Student's t interval (leg times the studentised bootstrap); shares of races the modified Wilson interval; the share of boards going
 /// left a Wilson interval for clustered shares; contacts per race Garwood's Poisson interval (Statistics). Side fairness
 /// is judged by the share of races (both sides sailed) whose first finisher went left, beside the share of boards that
 /// went left in them (what it would be if the sides were even); the mean place difference is shown without an interval
@@ -41,6 +41,19 @@ public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFin
         if (v.Length == 0) return None;
         if (v.Length == 1) return new Interval(v[0], double.NaN, double.NaN);
         return Statistics.PairedT(v);
+    }
+
+    /// <summary>
+    /// Mean with the symmetric studentised bootstrap interval (Statistics.BootstrapT), for per-race figures skewed by the
+    /// odd slow race (leg times: a fall or a penalty turn); one value gives no interval, none NaN. On the A/A batch the
+    /// t interval over leg times missed in 16 and 17 of 200 experiments, this one in about 10.
+    /// </summary>
+    public static Interval MeanBootstrapT(IReadOnlyList<double> x, ulong seed)
+    {
+        var v = x.Where(double.IsFinite).ToArray();
+        if (v.Length == 0) return None;
+        if (v.Length == 1) return new Interval(v[0], double.NaN, double.NaN);
+        return Statistics.BootstrapT(v, seed);
     }
 
     static Interval Share(int k, int n) => n == 0 ? None : Statistics.WilsonModified(k, n);
@@ -84,7 +97,7 @@ public sealed record OrganiserFigures(string Variant, int Races, Spread FirstFin
                 var s = g.Where(r => r.Finished).Select(r => r.Splits).Where(x => x.Length > k).Select(x => (x[k] - (k == 0 ? 0 : x[k - 1])) / 60).ToList();
                 if (s.Count > 0) perRace.Add(s.Average());
             }
-            legs.Add(new LegTime(labels[k], MeanT(perRace)));
+            legs.Add(new LegTime(labels[k], MeanBootstrapT(perRace, (ulong)k)));
         }
         return new OrganiserFigures(variant, n, Spread.Of(first), Spread.Of(races.Select(m => m.LastFinisherS)),
             Share(races.Count(m => m.Finishers == 0), n), Share(races.Count(m => m.Finishers < m.Boards), n), target,

@@ -7,9 +7,10 @@ namespace CourseSim.Tests.Experiments;
 /// <summary>
 /// The experiment report rendered in headless Chromium (tests/e2e/report.mjs, the viewer test's browser set-up): every
 /// chart loads, the headline comes first, no table header is squeezed narrower than its longest word and nothing but a
-/// table's own scroll box is wider than the page. The screenshot is kept under the test's artefacts folder.
+/// table's own scroll box is wider than the page. The screenshot is kept under the test's artefacts folder. Not in the
+/// viewer's collection (which runs alone): it sets no environment variable and serves nothing, and its batch would keep
+/// the other core idle for a minute.
 /// </summary>
-[Collection(CourseSim.Tests.Viewer.ViewerCollection.Name)]
 public class ReportBrowserTests(Xunit.Abstractions.ITestOutputHelper output)
 {
     [Fact]
