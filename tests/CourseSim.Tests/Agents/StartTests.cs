@@ -80,7 +80,10 @@ public class StartTests(ITestOutputHelper output)
             {
                 var b = StartBatch.Sail(StartBatch.Setup(seed, linePosition, alone), 120)[0];
                 output.WriteLine($"{(alone ? "alone" : "fleet")} seed {seed}: {b.Manoeuvres} manoeuvres, started {b.StartedS:F1} s{(b.Called ? " (early, returned)" : "")}");
-                Assert.True(b.Manoeuvres <= (b.Called ? FewManoeuvres : 2), $"{b.Manoeuvres} manoeuvres");
+                // A clean start needs no tack or gybe at all. Before the spot near the end the start tack sails to was taken
+                // far enough in for the holding drift (StartPlanner.EndDriftM), the pin-end board (0) drifted past where
+                // it could fetch the line on starboard and tacked onto port to start (3 Dec 2026, seed 1 alone).
+                Assert.True(b.Manoeuvres <= (b.Called ? FewManoeuvres : 0), $"{b.Manoeuvres} manoeuvres");
                 Assert.True(b.StartedS < (b.Called ? 60 : 10), $"started {b.StartedS:F1} s after the signal");
             }
     }
