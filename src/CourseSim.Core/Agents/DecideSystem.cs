@@ -114,7 +114,7 @@ public sealed class DecideSystem : RaceSystem
                 break;
             case RaceState.PreStart:
                 // After the signal, not yet started (late, or back from an early start): the run to the line.
-                (heading, power) = StartPlanner.LateRun(c, b, p, new Vec2(blk.Start[i].SpotX, blk.Start[i].SpotY), tws, from, tack);
+                heading = StartPlanner.RunHeading(c, rig, p, new Vec2(blk.Start[i].SpotX, blk.Start[i].SpotY), tws, from, tack);
                 break;
             case RaceState.Returning:
                 // Back below the line after an early start: bear away on the same tack, part sheeted, letting the

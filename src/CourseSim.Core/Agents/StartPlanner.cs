@@ -165,7 +165,6 @@ public static class StartPlanner
         if (plan.Going)
         {
             plan.Holding = true;
-            if (MustLetStarboardGo(c, b, p, runH, from, tack)) return (Unit.WrapRadPi(Unit.DegToRad(from) - tack * Unit.DegToRad(HoldTwaDeg)), 0);
             if (need >= remaining - EarlyToleranceS) return (runH, 1);
             // Early: luff on course while coasting cannot carry the bow to the line, else bear away along it.
             if (along > coast) return (runH, 0);
@@ -179,70 +178,6 @@ public static class StartPlanner
         // room again: no tack or gybe.
         if (toLine < 0.5 * holdBack * closing || along < coast) return BackOff(c, b, p, wait, tws, from, tack);
         return (Unit.WrapRadPi(Unit.DegToRad(from) - tack * Unit.DegToRad(HoldTwaDeg)), 0);
-    }
-
-    /// <summary>How close, m, a port-tack run may come to a board on starboard in the next <see cref="LetGoHorizonS"/>
-    /// before a rider who cannot fetch the line on starboard waits instead of tacking (model value: two board lengths
-    /// and room to spare).</summary>
-    public const double LetGoClearM = 12;
-    /// <summary>How far ahead the port-tack run is reckoned, s, and the time its tack takes before it moves off, s
-    /// (model values: a few seconds of sailing; a tack off the plane takes about that long, docs/physics.md).</summary>
-    public const double LetGoHorizonS = 20, LetGoTackS = 3;
-    /// <summary>Below this speed, m/s, a board on starboard is reckoned as about to sheet in on its close-hauled course
-    /// (model value: a board luffing on the line accelerates at the signal).</summary>
-    public const double LetGoMovingMs = 1.5;
-    /// <summary>Latest time after the signal a rider waits, s (model value: by then the fleet has left the line).</summary>
-    public const double LetGoLatestS = 30;
-
-    /// <summary>
-    /// A rider on starboard whose run to the line needs a tack onto port (the line cannot be fetched on starboard from
-    /// where they are) does not tack into boards coming down the line on starboard (rule 10: port keeps clear; common
-    /// practice: you do not port-tack a starting fleet). They reckon their port run (moving off after the tack at half
-    /// their close-hauled polar speed) against each live board on starboard, that board holding its course and speed
-    /// or, when nearly stopped (luffing on the line), sheeting in on its close-hauled course at half its polar speed.
-    /// If any would come within <see cref="LetGoClearM"/> in the next <see cref="LetGoHorizonS"/>, they wait, luffing
-    /// on starboard, and tack once the way is clear. A board that cannot fetch the line on starboard either is not
-    /// waited for (it is in the same spot: two such riders would wait for each other), nor a capsized one, and no one
-    /// waits beyond <see cref="LetGoLatestS"/> after the signal. Reads the step snapshot only.
-    /// </summary>
-    public static bool MustLetStarboardGo(RaceContext c, int b, Vec2 p, double runH, double from, int tack)
-    {
-        if (tack <= 0 || Sailing.SignedAngle(from, runH) >= 0 || c.Time > LetGoLatestS) return false;
-        var s = c.Snapshot; var rig = c.Fleet.Polars[b];
-        double tws = s.Tws[b];
-        var vb = 0.5 * rig.Speed(tws, Sailing.SignedAngle(from, runH)) * Vec2.FromBearing(Unit.RadToDeg(runH));
-        double reach = LetGoClearM + LetGoHorizonS * (vb.Length + 12);
-        var line = c.Course.Start;
-        double inset = Math.Min(0.5, EndInsetM / Math.Max(line.Length, 1e-9));
-        for (int j = 0; j < s.Count; j++)
-        {
-            if (j == b || !s.Live[j] || s.Capsized[j] || Sailing.SignedAngle(s.FromDeg[j], s.Heading[j]) <= 0) continue;
-            var r = new Vec2(s.X[j] - p.X, s.Y[j] - p.Y);
-            if (r.Length > reach) continue;
-            var pj = new Vec2(s.X[j], s.Y[j]); var rigJ = c.Fleet.Polars[j];
-            double closeJ = Sailing.CloseHauledOtherTack(rigJ, s.FromDeg[j], -1, s.Tws[j]);
-            double uj = CrossingShare(line, pj, closeJ);
-            if (!(uj >= inset && uj <= 1 - inset) && line.Ahead(pj) < 0) continue;
-            var vj = s.Speed[j] >= LetGoMovingMs ? s.Speed[j] * Vec2.FromBearing(Unit.RadToDeg(s.Heading[j]))
-                : 0.5 * rigJ.Speed(s.Tws[j], Sailing.SignedAngle(s.FromDeg[j], closeJ)) * Vec2.FromBearing(Unit.RadToDeg(closeJ));
-            for (double t = 0; t <= LetGoHorizonS; t += 0.5)
-            {
-                var d = r + t * vj - Math.Max(0, t - LetGoTackS) * vb;
-                if (d.Length < LetGoClearM) return true;
-            }
-        }
-        return false;
-    }
-
-    /// <summary>
-    /// The run to the line after the signal for a board not yet started (late, or back from an early start): its
-    /// heading at full power, or, when it would have to tack onto port in front of boards on starboard, luffing on
-    /// starboard until they have gone by (<see cref="MustLetStarboardGo"/>). Heading rad, power.
-    /// </summary>
-    public static (double Heading, double Power) LateRun(RaceContext c, int b, Vec2 p, Vec2 spot, double tws, double from, int tack)
-    {
-        double h = RunHeading(c, c.Fleet.Polars[b], p, spot, tws, from, tack);
-        return MustLetStarboardGo(c, b, p, h, from, tack) ? (Unit.WrapRadPi(Unit.DegToRad(from) - tack * Unit.DegToRad(HoldTwaDeg)), 0) : (h, 1);
     }
 
     /// <summary>
