@@ -107,6 +107,14 @@ public static class Judge
     }
 
     /// <summary>
+    /// Math.Sin and Math.Cos of <paramref name="h"/> (rad), taken from the snapshot's track of board k when h is that
+    /// track to the bit (the snapshot holds exactly Math.Sin and Math.Cos of it): the look-ahead asks for the present
+    /// track's sine and cosine again and again.
+    /// </summary>
+    public static (double Sin, double Cos) TrackSinCos(StepSnapshot s, int k, double h) =>
+        BitConverter.DoubleToInt64Bits(h) == BitConverter.DoubleToInt64Bits(s.Track[k]) ? (s.TrackSin[k], s.TrackCos[k]) : (Math.Sin(h), Math.Cos(h));
+
+    /// <summary>
     /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track whose
     /// sine and cosine are given, at va (m/s), b holding its present track and speed (tracks, not headings: leeway is large at low speed).
     /// </summary>
@@ -166,6 +174,19 @@ public static class Judge
     {
         readonly double _ax, _ay, _sinH, _cosH, _v, _vNow, _sm, _cm, _turnS, _la, _fax, _fay, _reach;
 
+        /// <summary>The same probe for a speed of <paramref name="v"/> along the same track (what depends on the track alone is kept).</summary>
+        public GapProbe WithSpeed(double v) => new(this, v);
+        /// <summary>The sine and cosine of the track the probe was made for.</summary>
+        public double SinH => _sinH;
+        public double CosH => _cosH;
+
+        GapProbe(in GapProbe p, double v)
+        {
+            this = p;
+            _v = v;
+            _reach = Math.Max(_vNow, Math.Abs(v)) * 6;
+        }
+
         public GapProbe(RaceContext c, int a, double h, double sinH, double cosH, double v)
         {
             var s = c.Snapshot;
@@ -178,7 +199,7 @@ public static class Judge
             double turn = Unit.WrapRadPi(h - s.Track[a]);
             _turnS = Math.Abs(Unit.RadToDeg(turn)) / Math.Clamp(20 + 8 * s.Speed[a], 20, Tuning.MaxYawDegPerS);
             double mid = s.Track[a] + 0.5 * turn;
-            _sm = Math.Sin(mid); _cm = Math.Cos(mid); _vNow = Math.Max(s.Speed[a], 0.5);
+            (_sm, _cm) = TrackSinCos(s, a, mid); _vNow = Math.Max(s.Speed[a], 0.5);
             // The farthest a moves from where it is over the longest horizon (6 s), m: its speed is at most the larger of the two.
             _reach = Math.Max(_vNow, Math.Abs(v)) * 6;
         }

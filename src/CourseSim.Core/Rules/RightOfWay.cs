@@ -3,11 +3,18 @@ using CourseSim.Units;
 
 namespace CourseSim.Rules;
 
-/// <summary>A board as the right-of-way rules see it: position of its centre (m), heading (deg), hull length (m).</summary>
+/// <summary>
+/// A board as the right-of-way rules see it: position of its centre (m), heading (deg), hull length (m). The heading's
+/// unit vector is worked out once, when the heading is set (the rules ask for it, the bow and the stern several times per
+/// pair: it was most of a verdict's cost); the same expression, so the same bits.
+/// </summary>
 public readonly record struct RuleBoard(double X, double Y, double HeadingDeg, double LengthM, bool Tacking = false)
 {
+    readonly double _headingDeg = HeadingDeg;
+    readonly Vec2 _forward = Vec2.FromBearing(HeadingDeg);
+    public double HeadingDeg { get => _headingDeg; init { _headingDeg = value; _forward = Vec2.FromBearing(value); } }
     public Vec2 Centre => new(X, Y);
-    public Vec2 Forward => Vec2.FromBearing(HeadingDeg);
+    public Vec2 Forward => _forward;
     public Vec2 Bow => Centre + 0.5 * LengthM * Forward;
     public Vec2 Stern => Centre - 0.5 * LengthM * Forward;
 }
