@@ -60,7 +60,7 @@ public static class Judge
         if (s.Capsized[b]) return (a, Rule22);
         if (s.Capsized[a]) return (b, Rule22);
         double from = s.FromDeg[a];
-        bool aTurning = s.Tacking[a] || Math.Sign(Sailing.SignedAngle(from, headingA)) != Math.Sign(Sailing.SignedAngle(from, s.Heading[a])) && Math.Abs(Sailing.SignedAngle(from, headingA)) < Math.PI / 2;
+        bool aTurning = s.Tacking[a] || FastMath.Sign(Sailing.SignedAngle(from, headingA)) != FastMath.Sign(Sailing.SignedAngle(from, s.Heading[a])) && Math.Abs(Sailing.SignedAngle(from, headingA)) < Math.PI / 2;
         var ra = Of(c, a, headingA, aTurning);
         var rb = Of(c, b, s.Heading[b], s.Tacking[b]);
         if (ra.Tacking && rb.Tacking)
@@ -84,7 +84,7 @@ public static class Judge
             {
                 // Inside: the board on the mark's side of the other (abeam), not merely the nearer one.
                 var fb = rb.Forward; var right = new Vec2(fb.Y, -fb.X);
-                bool aInside = Math.Sign(Vec2.Dot(ra.Centre - rb.Centre, right)) == Math.Sign(Vec2.Dot(mark - rb.Centre, right));
+                bool aInside = FastMath.Sign(Vec2.Dot(ra.Centre - rb.Centre, right)) == FastMath.Sign(Vec2.Dot(mark - rb.Centre, right));
                 return (aInside ? b : a, Rule18);
             }
         }

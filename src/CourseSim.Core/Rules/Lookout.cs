@@ -152,7 +152,7 @@ public sealed class Lookout : RaceSystem
 
     /// <summary>Whether k and j sail on the same tack (the side the wind each feels comes over).</summary>
     static bool SameTack(StepSnapshot s, int k, int j) =>
-        Math.Sign(Sailing.SignedAngle(s.FromDeg[k], s.Heading[k])) == Math.Sign(Sailing.SignedAngle(s.FromDeg[j], s.Heading[j]));
+        FastMath.Sign(Sailing.SignedAngle(s.FromDeg[k], s.Heading[k])) == FastMath.Sign(Sailing.SignedAngle(s.FromDeg[j], s.Heading[j]));
 
     /// <summary>How far k is to windward of j's track, m (negative: to leeward), across j's track on the side the wind comes from.</summary>
     static double WindwardOffset(StepSnapshot s, int k, int j)
@@ -179,11 +179,11 @@ public sealed class Lookout : RaceSystem
         bool pending = helm.HasPending && pen.Stage == 0;
         double want = pending ? helm.PendH : helm.PlannedH;
         double from = s.FromDeg[k];
-        int side = Math.Sign(Sailing.SignedAngle(from, s.Heading[k])); if (side == 0) side = 1;
+        int side = FastMath.Sign(Sailing.SignedAngle(from, s.Heading[k])); if (side == 0) side = 1;
         // Wanting the other tack: the rider foresees being nearly stopped through the tack (model value: a third of the speed).
-        bool turning = Math.Sign(Sailing.SignedAngle(from, want)) != side;
+        bool turning = FastMath.Sign(Sailing.SignedAngle(from, want)) != side;
         // Until a pending decision takes effect the present one still steers: a tack it asks for is vetted too.
-        if (!turning && Math.Sign(Sailing.SignedAngle(from, helm.PlannedH)) != side) { want = helm.PlannedH; turning = true; }
+        if (!turning && FastMath.Sign(Sailing.SignedAngle(from, helm.PlannedH)) != side) { want = helm.PlannedH; turning = true; }
         // Running, a gybe keeps most of the speed; a tack nearly stops the board.
         bool gybing = turning && Math.Abs(Sailing.SignedAngle(from, want)) > Math.PI / 2 && Math.Abs(Sailing.SignedAngle(from, s.Heading[k])) > Math.PI / 2;
         double va = gybing ? GybeAwaySpeedShare * s.Speed[k] : turning ? 0.3 * s.Speed[k] : Math.Max(s.Speed[k], 1.0);
@@ -262,7 +262,7 @@ public sealed class Lookout : RaceSystem
                 if (slow == 0) hs[oi] = Unit.WrapRadPi(baseH + Unit.DegToRad(off));
                 double h = hs[oi];
                 double twa = Sailing.SignedAngle(from, h);
-                bool other = Math.Sign(twa) != side;
+                bool other = FastMath.Sign(twa) != side;
                 bool gybe = other && mayGybe && Math.Abs(twa) >= Unit.DegToRad(GybeAwayMinTwaDeg);
                 bool tack = other && mayTack && oi == 18;
                 if (other && !(slow == 0 && (gybe || tack))) continue;
