@@ -103,7 +103,9 @@ public static class RightOfWay
     public static double SegmentDistance(Vec2 p1, Vec2 q1, Vec2 p2, Vec2 q2)
     {
         if (Segment.Crosses(p1, q1, p2, q2, out _)) return 0;
-        return Math.Min(Math.Min(PointToSegment(p1, p2, q2), PointToSegment(q1, p2, q2)), Math.Min(PointToSegment(p2, p1, q1), PointToSegment(q2, p1, q1)));
+        // The square root is correctly rounded and never decreasing, so the least of the four distances is the root of the
+        // least squared distance: one root instead of four, the same bits (the look-ahead calls this for every sample).
+        return Math.Sqrt(Math.Min(Math.Min(PointToSegment2(p1, p2, q2), PointToSegment2(q1, p2, q2)), Math.Min(PointToSegment2(p2, p1, q1), PointToSegment2(q2, p1, q1))));
     }
 
     /// <summary>
@@ -112,10 +114,12 @@ public static class RightOfWay
     /// </summary>
     public static bool Contact(in RuleBoard a, in RuleBoard b, double clearanceM = 1.0) => HullDistance(a, b) < clearanceM;
 
-    static double PointToSegment(Vec2 p, Vec2 a, Vec2 b)
+    /// <summary>The squared distance from p to segment a-b (the square of what <see cref="Vec2.Length"/> would take the root of).</summary>
+    static double PointToSegment2(Vec2 p, Vec2 a, Vec2 b)
     {
         var d = b - a;
         double t = Math.Clamp(Vec2.Dot(p - a, d) / Math.Max(Vec2.Dot(d, d), 1e-12), 0, 1);
-        return (a + t * d - p).Length;
+        var e = a + t * d - p;
+        return e.X * e.X + e.Y * e.Y;
     }
 }
