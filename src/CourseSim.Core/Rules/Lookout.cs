@@ -109,9 +109,9 @@ public sealed class Lookout : RaceSystem
         foreach (int j in c.Grid.Neighbours(k))
         {
             long key = RaceContext.PairKey(k, j);
-            var (t, d) = Judge.Cpa(s, k, sinH, cosH, v, j);
+            var (t, d, closing) = Judge.CpaAndClosing(s, k, sinH, cosH, v, j);
             // Faster closing, wider berth (the same rule of thumb as the passing gap).
-            double m = margin + ConflictPerMs * Judge.ClosingSpeed(s, sinH, cosH, v, j);
+            double m = margin + ConflictPerMs * closing;
             if (d >= m || t >= LookaheadS)
             {
                 // No conflict: forget one this rider had foreseen as theirs.
