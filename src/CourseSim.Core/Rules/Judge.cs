@@ -44,8 +44,16 @@ public static class Judge
     /// <summary>The window within which a right-of-way board's change of course leaves keep-clear board k no room (s).</summary>
     public static double RoomWindowS(RaceContext c, int k) => Math.Min(4, c.Fleet.ReactionS[k] + RoomActS);
 
-    static RuleBoard Of(RaceContext c, int b, double headingRad, bool tacking) =>
-        new(c.Snapshot.X[b], c.Snapshot.Y[b], Unit.RadToDeg(headingRad), c.Fleet.LengthM[b], tacking);
+    static RuleBoard Of(RaceContext c, int b, double headingRad, bool tacking)
+    {
+        var s = c.Snapshot;
+        double deg = Unit.RadToDeg(headingRad);
+        // At a lookout the snapshot holds each board's heading vector, FromBearing of exactly this expression of its
+        // heading: taken from there when the heading asked about is the board's own (the same bits, no sine and cosine).
+        if (s.HeadsReady && BitConverter.DoubleToInt64Bits(headingRad) == BitConverter.DoubleToInt64Bits(s.Heading[b]))
+            return new RuleBoard(s.X[b], s.Y[b], deg, c.Fleet.LengthM[b], tacking, new Vec2(s.HeadX[b], s.HeadY[b]));
+        return new RuleBoard(s.X[b], s.Y[b], deg, c.Fleet.LengthM[b], tacking);
+    }
 
     /// <summary>
     /// Who keeps clear between boards a and b, a sailing <paramref name="headingA"/> (a heading on the other tack counts

@@ -8,11 +8,32 @@ namespace CourseSim.Rules;
 /// unit vector is worked out once, when the heading is set (the rules ask for it, the bow and the stern several times per
 /// pair: it was most of a verdict's cost); the same expression, so the same bits.
 /// </summary>
-public readonly record struct RuleBoard(double X, double Y, double HeadingDeg, double LengthM, bool Tacking = false)
+public readonly record struct RuleBoard
 {
-    readonly double _headingDeg = HeadingDeg;
-    readonly Vec2 _forward = Vec2.FromBearing(HeadingDeg);
+    readonly double _headingDeg;
+    readonly Vec2 _forward;
+
+    public RuleBoard(double X, double Y, double HeadingDeg, double LengthM, bool Tacking = false)
+        : this(X, Y, HeadingDeg, LengthM, Tacking, Vec2.FromBearing(HeadingDeg)) { }
+
+    /// <summary>With the heading's unit vector given: only for <paramref name="forward"/> equal to the bit to
+    /// Vec2.FromBearing(headingDeg), as the step snapshot holds it (Judge).</summary>
+    internal RuleBoard(double x, double y, double headingDeg, double lengthM, bool tacking, Vec2 forward)
+    {
+        X = x; Y = y; _headingDeg = headingDeg; LengthM = lengthM; Tacking = tacking; _forward = forward;
+    }
+
+    public double X { get; init; }
+    public double Y { get; init; }
     public double HeadingDeg { get => _headingDeg; init { _headingDeg = value; _forward = Vec2.FromBearing(value); } }
+    public double LengthM { get; init; }
+    public bool Tacking { get; init; }
+
+    public void Deconstruct(out double X, out double Y, out double HeadingDeg, out double LengthM, out bool Tacking)
+    {
+        X = this.X; Y = this.Y; HeadingDeg = this.HeadingDeg; LengthM = this.LengthM; Tacking = this.Tacking;
+    }
+
     public Vec2 Centre => new(X, Y);
     public Vec2 Forward => _forward;
     public Vec2 Bow => Centre + 0.5 * LengthM * Forward;
