@@ -12,8 +12,9 @@ namespace CourseSim.Benchmarks;
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- report [--repeats N] [--big-boards N] [--after-start-s S]
 ///       [--big-timings] [--batch-races N] [--threads T]
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- report-batch [--races N] [--threads T]   (N = 1000: the full batch)
-///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- race-loop [RACES]   (the 40-board demo raced again and
-///       again on one thread after a warm-up race, for a profiler: DOTNET_PerfMapEnabled=1 perf record -g -p PID)
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- race-loop [RACES] [--timings]   (the 40-board demo raced again and
+///       again on one thread after a warm-up race, for a profiler: DOTNET_PerfMapEnabled=1 perf record -g -p PID;
+///       --timings: each race's wall ns per board-step by system)
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- scale-quick [N] [S]   (N boards and 40 to +S s, per system)
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- alloc-by-system   (bytes each system allocates in the steady stretch)
 /// Figures are printed, never asserted in tests (see DEVELOPERS.md).
@@ -24,9 +25,10 @@ public static class Program
     static int RaceLoop(string[] args)
     {
         int races = 5;
-        if (args.Length > 2 || args.Length == 2 && (!int.TryParse(args[1], out races) || races < 1))
+        bool timings = args.Length == 3 && args[2] == "--timings";
+        if (args.Length > 3 || args.Length == 3 && !timings || args.Length >= 2 && (!int.TryParse(args[1], out races) || races < 1))
         {
-            Console.Error.WriteLine($"error: race-loop: expected a number of races (a whole number from 1), got '{string.Join(' ', args.Skip(1))}'");
+            Console.Error.WriteLine($"error: race-loop: expected a number of races (a whole number from 1) and optionally --timings, got '{string.Join(' ', args.Skip(1))}'");
             return 2;
         }
         var rigs = new CourseSim.Equilibrium.RigCache();
@@ -36,8 +38,12 @@ public static class Program
         {
             double t0 = Machine.ThreadCpuS();
             var race = new Race(Demo.Fleet40(), rigs.For);
+            var t = timings ? new CourseSim.Engine.SystemTimings() : null;
+            race.Timings = t;
             race.Run();
-            Console.WriteLine($"  race {i + 1}: {Machine.ThreadCpuS() - t0:F2} s CPU, ends at {race.Time:F1} s");
+            Console.WriteLine($"  race {i + 1}: {Machine.ThreadCpuS() - t0:F3} s CPU, ends at {race.Time:F1} s");
+            if (t is not null)
+                Console.WriteLine("    wall ns per board-step (40 boards x steps): " + string.Join(", ", Enumerable.Range(0, t.Names.Length).Select(k => $"{t.Names[k]} {t.NsPerBoardStep(k, 40):F1}")));
         }
         return 0;
     }

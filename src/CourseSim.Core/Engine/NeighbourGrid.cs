@@ -55,10 +55,15 @@ public sealed class NeighbourGrid
                 for (int di = -1; di <= 1; di++)
                 {
                     int ci = ai + di, cj = aj + dj;
-                    foreach (ref readonly var e in _cells.Bucket(ci, cj))
+                    var bucket = _cells.Bucket(ci, cj);
+                    // Each pair once: from the board earlier in the canonical order. A bucket lists its boards in rank
+                    // order, so those at or before a in that order are a prefix, skipped by bisection (the same pairs
+                    // in the same order as testing each rank).
+                    int lo = 0, hi = bucket.Length;
+                    while (lo < hi) { int mid = (lo + hi) >> 1; if (bucket[mid].Rank <= r) lo = mid + 1; else hi = mid; }
+                    foreach (ref readonly var e in bucket[lo..])
                     {
-                        // Each pair once: from the board earlier in the canonical order.
-                        if (e.Ci != ci || e.Cj != cj || e.Rank <= r) continue;
+                        if (e.Ci != ci || e.Cj != cj) continue;
                         double dx = xa - e.X, dy = ya - e.Y, d2 = dx * dx + dy * dy;
                         if (d2 > range2) continue;
                         int c = e.Board;

@@ -24,6 +24,8 @@ public sealed class StepSnapshot
     public readonly bool[] Finished, Tacking, Capsized, Busy, KeepingClear;
     /// <summary>Time the snapshot was taken, s from the signal.</summary>
     public double TimeS;
+    /// <summary>Whether <see cref="HeadX"/>, <see cref="HeadY"/> (and the track's angle) are this capture's (set by <see cref="PrepareLookout"/>).</summary>
+    public bool HeadsReady;
 
     public StepSnapshot(int n)
     {
@@ -39,6 +41,7 @@ public sealed class StepSnapshot
     public void Capture(Query all, double timeS)
     {
         TimeS = timeS;
+        HeadsReady = false;
         foreach (var chunk in all)
         {
             var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>(); var sw = chunk.Span<SensedWind>();
@@ -78,11 +81,12 @@ public sealed class StepSnapshot
             var f = Courses.Vec2.FromBearing(Units.Unit.RadToDeg(Heading[b]));
             HeadX[b] = f.X; HeadY[b] = f.Y;
         }
+        HeadsReady = true;
     }
 
     public void CopyFrom(StepSnapshot o)
     {
-        TimeS = o.TimeS;
+        TimeS = o.TimeS; HeadsReady = o.HeadsReady;
         foreach (var (dst, src) in new[] { (X, o.X), (Y, o.Y), (Heading, o.Heading), (Track, o.Track), (Speed, o.Speed), (FromDeg, o.FromDeg),
                      (Tws, o.Tws), (AppFromDeg, o.AppFromDeg), (AppDownX, o.AppDownX), (AppDownY, o.AppDownY),
                      (TrackSin, o.TrackSin), (TrackCos, o.TrackCos), (HeadX, o.HeadX), (HeadY, o.HeadY), (_rawSin, o._rawSin), (_rawCos, o._rawCos) }) Array.Copy(src, dst, Count);

@@ -44,8 +44,16 @@ public static class Judge
     /// <summary>The window within which a right-of-way board's change of course leaves keep-clear board k no room (s).</summary>
     public static double RoomWindowS(RaceContext c, int k) => Math.Min(4, c.Fleet.ReactionS[k] + RoomActS);
 
-    static RuleBoard Of(RaceContext c, int b, double headingRad, bool tacking) =>
-        new(c.Snapshot.X[b], c.Snapshot.Y[b], Unit.RadToDeg(headingRad), c.Fleet.LengthM[b], tacking);
+    static RuleBoard Of(RaceContext c, int b, double headingRad, bool tacking)
+    {
+        var s = c.Snapshot;
+        double deg = Unit.RadToDeg(headingRad);
+        // At a lookout the snapshot holds each board's heading vector, FromBearing of exactly this expression of its
+        // heading: taken from there when the heading asked about is the board's own (the same bits, no sine and cosine).
+        if (s.HeadsReady && BitConverter.DoubleToInt64Bits(headingRad) == BitConverter.DoubleToInt64Bits(s.Heading[b]))
+            return new RuleBoard(s.X[b], s.Y[b], deg, c.Fleet.LengthM[b], tacking, new Vec2(s.HeadX[b], s.HeadY[b]));
+        return new RuleBoard(s.X[b], s.Y[b], deg, c.Fleet.LengthM[b], tacking);
+    }
 
     /// <summary>
     /// Who keeps clear between boards a and b, a sailing <paramref name="headingA"/> (a heading on the other tack counts
@@ -60,7 +68,7 @@ public static class Judge
         if (s.Capsized[b]) return (a, Rule22);
         if (s.Capsized[a]) return (b, Rule22);
         double from = s.FromDeg[a];
-        bool aTurning = s.Tacking[a] || Math.Sign(Sailing.SignedAngle(from, headingA)) != Math.Sign(Sailing.SignedAngle(from, s.Heading[a])) && Math.Abs(Sailing.SignedAngle(from, headingA)) < Math.PI / 2;
+        bool aTurning = s.Tacking[a] || FastMath.Sign(Sailing.SignedAngle(from, headingA)) != FastMath.Sign(Sailing.SignedAngle(from, s.Heading[a])) && Math.Abs(Sailing.SignedAngle(from, headingA)) < Math.PI / 2;
         var ra = Of(c, a, headingA, aTurning);
         var rb = Of(c, b, s.Heading[b], s.Tacking[b]);
         if (ra.Tacking && rb.Tacking)
@@ -84,7 +92,7 @@ public static class Judge
             {
                 // Inside: the board on the mark's side of the other (abeam), not merely the nearer one.
                 var fb = rb.Forward; var right = new Vec2(fb.Y, -fb.X);
-                bool aInside = Math.Sign(Vec2.Dot(ra.Centre - rb.Centre, right)) == Math.Sign(Vec2.Dot(mark - rb.Centre, right));
+                bool aInside = FastMath.Sign(Vec2.Dot(ra.Centre - rb.Centre, right)) == FastMath.Sign(Vec2.Dot(mark - rb.Centre, right));
                 return (aInside ? b : a, Rule18);
             }
         }
@@ -107,6 +115,14 @@ public static class Judge
     }
 
     /// <summary>
+    /// Math.Sin and Math.Cos of <paramref name="h"/> (rad), taken from the snapshot's track of board k when h is that
+    /// track to the bit (the snapshot holds exactly Math.Sin and Math.Cos of it): the look-ahead asks for the present
+    /// track's sine and cosine again and again.
+    /// </summary>
+    public static (double Sin, double Cos) TrackSinCos(StepSnapshot s, int k, double h) =>
+        BitConverter.DoubleToInt64Bits(h) == BitConverter.DoubleToInt64Bits(s.Track[k]) ? (s.TrackSin[k], s.TrackCos[k]) : (Math.Sin(h), Math.Cos(h));
+
+    /// <summary>
     /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track whose
     /// sine and cosine are given, at va (m/s), b holding its present track and speed (tracks, not headings: leeway is large at low speed).
     /// </summary>
@@ -118,6 +134,20 @@ public static class Judge
         double t = vv < 1e-9 ? 0 : Math.Clamp(-(rx * vx + ry * vy) / vv, 0, Lookout.LookaheadS);
         double dx = rx + vx * t, dy = ry + vy * t;
         return (t, Math.Sqrt(dx * dx + dy * dy));
+    }
+
+    /// <summary>
+    /// <see cref="Cpa"/> and <see cref="ClosingSpeed"/> together: the relative velocity is worked out once (the same
+    /// expressions as each works out on its own, so the same bits).
+    /// </summary>
+    public static (double T, double D, double Closing) CpaAndClosing(StepSnapshot s, int a, double sinHa, double cosHa, double va, int b)
+    {
+        double rx = s.X[b] - s.X[a], ry = s.Y[b] - s.Y[a];
+        double vx = s.Speed[b] * s.TrackSin[b] - va * sinHa, vy = s.Speed[b] * s.TrackCos[b] - va * cosHa;
+        double vv = vx * vx + vy * vy;
+        double t = vv < 1e-9 ? 0 : Math.Clamp(-(rx * vx + ry * vy) / vv, 0, Lookout.LookaheadS);
+        double dx = rx + vx * t, dy = ry + vy * t;
+        return (t, Math.Sqrt(dx * dx + dy * dy), Math.Sqrt(vv));
     }
 
     /// <summary>Relative speed of b seen from a board making good the track whose sine and cosine are given, at v, m/s.</summary>
@@ -166,6 +196,19 @@ public static class Judge
     {
         readonly double _ax, _ay, _sinH, _cosH, _v, _vNow, _sm, _cm, _turnS, _la, _fax, _fay, _reach;
 
+        /// <summary>The same probe for a speed of <paramref name="v"/> along the same track (what depends on the track alone is kept).</summary>
+        public GapProbe WithSpeed(double v) => new(this, v);
+        /// <summary>The sine and cosine of the track the probe was made for.</summary>
+        public double SinH => _sinH;
+        public double CosH => _cosH;
+
+        GapProbe(in GapProbe p, double v)
+        {
+            this = p;
+            _v = v;
+            _reach = Math.Max(_vNow, Math.Abs(v)) * 6;
+        }
+
         public GapProbe(RaceContext c, int a, double h, double sinH, double cosH, double v)
         {
             var s = c.Snapshot;
@@ -178,7 +221,7 @@ public static class Judge
             double turn = Unit.WrapRadPi(h - s.Track[a]);
             _turnS = Math.Abs(Unit.RadToDeg(turn)) / Math.Clamp(20 + 8 * s.Speed[a], 20, Tuning.MaxYawDegPerS);
             double mid = s.Track[a] + 0.5 * turn;
-            _sm = Math.Sin(mid); _cm = Math.Cos(mid); _vNow = Math.Max(s.Speed[a], 0.5);
+            (_sm, _cm) = TrackSinCos(s, a, mid); _vNow = Math.Max(s.Speed[a], 0.5);
             // The farthest a moves from where it is over the longest horizon (6 s), m: its speed is at most the larger of the two.
             _reach = Math.Max(_vNow, Math.Abs(v)) * 6;
         }

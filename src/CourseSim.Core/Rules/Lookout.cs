@@ -104,14 +104,14 @@ public sealed class Lookout : RaceSystem
     {
         _threats.Clear();
         var s = c.Snapshot;
-        double sinH = Math.Sin(h), cosH = Math.Cos(h);
+        var (sinH, cosH) = Judge.TrackSinCos(s, k, h);
         var probe = gybing ? new Judge.GapProbe(c, k, h, sinH, cosH, v) : default;
         foreach (int j in c.Grid.Neighbours(k))
         {
             long key = RaceContext.PairKey(k, j);
-            var (t, d) = Judge.Cpa(s, k, sinH, cosH, v, j);
+            var (t, d, closing) = Judge.CpaAndClosing(s, k, sinH, cosH, v, j);
             // Faster closing, wider berth (the same rule of thumb as the passing gap).
-            double m = margin + ConflictPerMs * Judge.ClosingSpeed(s, sinH, cosH, v, j);
+            double m = margin + ConflictPerMs * closing;
             if (d >= m || t >= LookaheadS)
             {
                 // No conflict: forget one this rider had foreseen as theirs.
@@ -152,7 +152,7 @@ public sealed class Lookout : RaceSystem
 
     /// <summary>Whether k and j sail on the same tack (the side the wind each feels comes over).</summary>
     static bool SameTack(StepSnapshot s, int k, int j) =>
-        Math.Sign(Sailing.SignedAngle(s.FromDeg[k], s.Heading[k])) == Math.Sign(Sailing.SignedAngle(s.FromDeg[j], s.Heading[j]));
+        FastMath.Sign(Sailing.SignedAngle(s.FromDeg[k], s.Heading[k])) == FastMath.Sign(Sailing.SignedAngle(s.FromDeg[j], s.Heading[j]));
 
     /// <summary>How far k is to windward of j's track, m (negative: to leeward), across j's track on the side the wind comes from.</summary>
     static double WindwardOffset(StepSnapshot s, int k, int j)
@@ -179,11 +179,11 @@ public sealed class Lookout : RaceSystem
         bool pending = helm.HasPending && pen.Stage == 0;
         double want = pending ? helm.PendH : helm.PlannedH;
         double from = s.FromDeg[k];
-        int side = Math.Sign(Sailing.SignedAngle(from, s.Heading[k])); if (side == 0) side = 1;
+        int side = FastMath.Sign(Sailing.SignedAngle(from, s.Heading[k])); if (side == 0) side = 1;
         // Wanting the other tack: the rider foresees being nearly stopped through the tack (model value: a third of the speed).
-        bool turning = Math.Sign(Sailing.SignedAngle(from, want)) != side;
+        bool turning = FastMath.Sign(Sailing.SignedAngle(from, want)) != side;
         // Until a pending decision takes effect the present one still steers: a tack it asks for is vetted too.
-        if (!turning && Math.Sign(Sailing.SignedAngle(from, helm.PlannedH)) != side) { want = helm.PlannedH; turning = true; }
+        if (!turning && FastMath.Sign(Sailing.SignedAngle(from, helm.PlannedH)) != side) { want = helm.PlannedH; turning = true; }
         // Running, a gybe keeps most of the speed; a tack nearly stops the board.
         bool gybing = turning && Math.Abs(Sailing.SignedAngle(from, want)) > Math.PI / 2 && Math.Abs(Sailing.SignedAngle(from, s.Heading[k])) > Math.PI / 2;
         double va = gybing ? GybeAwaySpeedShare * s.Speed[k] : turning ? 0.3 * s.Speed[k] : Math.Max(s.Speed[k], 1.0);
@@ -249,14 +249,20 @@ public sealed class Lookout : RaceSystem
         bool mayTack = roomToTurn && twaCur <= Unit.DegToRad(TackAwayMaxTwaDeg);
         offsets[18] = mayTack ? Unit.RadToDeg(Unit.WrapRadPi(Sailing.CloseHauledOtherTack(c.Fleet.Polars[k], from, side, s.Tws[k]) - baseH)) : double.NaN;
         var neighbours = c.Grid.Neighbours(k);
+        // What depends on a candidate's track alone (the track, its sine and cosine, the probe's turn onto it) is worked
+        // out once for both passes (full power and slowed): the same expressions, so the same bits.
+        Span<double> hs = stackalloc double[19];
+        Span<Judge.GapProbe> probes = stackalloc Judge.GapProbe[19];
+        Span<bool> probed = stackalloc bool[19];
         for (int slow = 0; slow < 2; slow++)
             for (int oi = 0; oi < offsets.Length; oi++)
             {
                 double off = offsets[oi];
                 if (double.IsNaN(off)) continue;
-                double h = Unit.WrapRadPi(baseH + Unit.DegToRad(off));
+                if (slow == 0) hs[oi] = Unit.WrapRadPi(baseH + Unit.DegToRad(off));
+                double h = hs[oi];
                 double twa = Sailing.SignedAngle(from, h);
-                bool other = Math.Sign(twa) != side;
+                bool other = FastMath.Sign(twa) != side;
                 bool gybe = other && mayGybe && Math.Abs(twa) >= Unit.DegToRad(GybeAwayMinTwaDeg);
                 bool tack = other && mayTack && oi == 18;
                 if (other && !(slow == 0 && (gybe || tack))) continue;
@@ -273,8 +279,14 @@ public sealed class Lookout : RaceSystem
                 bool kept = gw.On && (slow == 1) == (gw.Power == 0) && Math.Abs(Unit.WrapRadPi(h - gw.Heading)) < Unit.DegToRad(6);
                 if (Score(lead, duck, kept, double.PositiveInfinity) >= bestScore) continue;
                 // Only a shortfall of clearance counts in the score, so each gap need be exact only below the clearance.
-                double worst = double.PositiveInfinity, sinH = Math.Sin(h), cosH = Math.Cos(h);
-                var probe = new Judge.GapProbe(c, k, h, sinH, cosH, v);
+                if (!probed[oi])
+                {
+                    var (sn, cs) = Judge.TrackSinCos(s, k, h);
+                    probes[oi] = new Judge.GapProbe(c, k, h, sn, cs, v);
+                    probed[oi] = true;
+                }
+                var probe = probes[oi].WithSpeed(v);
+                double worst = double.PositiveInfinity, sinH = probe.SinH, cosH = probe.CosH;
                 foreach (int j in other ? neighbours : System.Runtime.InteropServices.CollectionsMarshal.AsSpan(_threats))
                 {
                     double clear = Judge.PassClear(s, sinH, cosH, v, j);
@@ -304,7 +316,8 @@ public sealed class Lookout : RaceSystem
         var s = c.Snapshot;
         double cur = s.Track[k];
         if (Math.Abs(Unit.WrapRadPi(h - cur)) < Unit.DegToRad(Judge.AlterDeg) * 0.5) return -1;
-        double v = Math.Max(s.Speed[k], 1.0), sinH = Math.Sin(h), cosH = Math.Cos(h), sinC = Math.Sin(cur), cosC = Math.Cos(cur);
+        double v = Math.Max(s.Speed[k], 1.0), sinC = s.TrackSin[k], cosC = s.TrackCos[k]; // the snapshot's Math.Sin and Math.Cos of cur
+        var (sinH, cosH) = Judge.TrackSinCos(s, k, h);
         var onH = new Judge.GapProbe(c, k, h, sinH, cosH, v); var onCur = new Judge.GapProbe(c, k, cur, sinC, cosC, v);
         foreach (int j in c.Grid.Neighbours(k))
         {

@@ -38,18 +38,18 @@ public static class PenaltyTurn
                 if (Math.Abs(twa) < Unit.DegToRad(60)) pen.Stage = 2;
                 break;
             case 2:
-                h = crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == s ? At(s * 45) : At(-s * 45);
-                if (crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == s && DropsBack(c, b, pose)) pw = 0;
-                if (man.Kind == Manoeuvre.None && Math.Sign(twa) == -s) pen.Stage = 3;
+                h = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s ? At(s * 45) : At(-s * 45);
+                if (crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s && DropsBack(c, b, pose)) pw = 0;
+                if (man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s) pen.Stage = 3;
                 break;
             case 3:
                 h = At(-s * 150);
                 if (Math.Abs(twa) > Unit.DegToRad(130)) pen.Stage = 4;
                 break;
             case 4:
-                h = crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == -s ? At(-s * 150) : At(s * 150);
-                if (crowded && man.Kind == Manoeuvre.None && Math.Sign(twa) == -s && DropsBack(c, b, pose)) pw = 0;
-                if (man.Kind == Manoeuvre.None && Math.Sign(twa) == s)
+                h = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s ? At(-s * 150) : At(s * 150);
+                if (crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s && DropsBack(c, b, pose)) pw = 0;
+                if (man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s)
                 {
                     pen.Stage = 0; pen.Owed--; pen.Taken++; per.LastTurnS = c.Time;
                     c.AddEvent(b, RaceEventKind.PenaltyServed, pose, "one-turn penalty taken");

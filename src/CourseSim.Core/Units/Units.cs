@@ -14,12 +14,20 @@ public static class Unit
     public static double RadToDeg(double rad) => rad * (180.0 / Math.PI);
 
     /// <summary>Wraps an angle in degrees to [0, 360).</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public static double WrapDeg360(double deg)
     {
-        // Fast paths give exactly what the remainder gives (Sterbenz: deg - 360 is exact for 360 <= deg < 720).
+        // Fast paths give exactly what the remainder gives (Sterbenz: deg - 360 is exact for 360 <= deg < 720); inlined,
+        // with the remainder out of line (the step wraps angles in its inner loops).
         if (deg >= 0 && deg < 360.0) return deg;
         if (deg >= 360.0 && deg < 720.0) return deg - 360.0;
         if (deg < 0 && deg >= -360.0) { double w = deg + 360.0; return w < 360.0 ? w : 0; }
+        return WrapDeg360Far(deg);
+    }
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.NoInlining)]
+    static double WrapDeg360Far(double deg)
+    {
         double r = deg % 360.0;
         return r < 0 ? r + 360.0 : r;
     }

@@ -89,17 +89,17 @@ public sealed class GustTile
             int i = fi < 0 ? fi + size : fi;
             fft.Transform(c.AsSpan(i * size, size));
         }
-        // Columns eight at a time: each row read brings eight neighbouring values (two cache lines), not one.
-        const int Block = 8;
-        var cols = new Complex[Block * size];
+        // Columns eight at a time, interleaved (each row read brings eight neighbouring values, two cache lines, not one),
+        // transformed together lane by lane with the same arithmetic as one at a time (InverseFft.TransformInterleaved).
+        const int Block = 8; // size is a power of two of at least 8, so the blocks tile the columns exactly
+        var colRe = new double[Block * size]; var colIm = new double[Block * size];
         for (int j0 = 0; j0 < size; j0 += Block)
         {
-            int nb = Math.Min(Block, size - j0);
             for (int i = 0; i < size; i++)
-                for (int q = 0; q < nb; q++) cols[q * size + i] = c[i * size + j0 + q];
-            for (int q = 0; q < nb; q++) fft.Transform(cols.AsSpan(q * size, size));
+                for (int q = 0; q < Block; q++) { var v = c[i * size + j0 + q]; colRe[i * Block + q] = v.Real; colIm[i * Block + q] = v.Imaginary; }
+            fft.TransformInterleaved(colRe, colIm, Block);
             for (int i = 0; i < size; i++)
-                for (int q = 0; q < nb; q++) c[i * size + j0 + q] = cols[q * size + i];
+                for (int q = 0; q < Block; q++) c[i * size + j0 + q] = new Complex(colRe[i * Block + q], colIm[i * Block + q]);
         }
         // The spectrum integrates to 3 pi / l^2 over the plane: the band holds held (dk l)^2 / (3 pi) of the unit variance.
         // Each tile is scaled so that, after the interpolation's loss, its variance is the band's: the grid values carry
@@ -107,19 +107,41 @@ public sealed class GustTile
         // tile at exactly its share.
         double variance = held * dkl * dkl / (3 * Math.PI);
         double gridVariance = variance * grid / held;
-        return (Make(c, size, firstLengthM, pointsPerScale, variance, gridVariance, imaginary: false),
-                Make(c, size, secondLengthM, pointsPerScale, variance, gridVariance, imaginary: true));
+        // Both tiles in the same passes over the transform (each with its own sums, in the same order as one tile at a
+        // time, so the same bits): the 4 MiB array is read twice instead of four times.
+        double sumR = 0, sum2R = 0, sumI = 0, sum2I = 0;
+        for (int i = 0; i < c.Length; i++)
+        {
+            double re = c[i].Real, im = c[i].Imaginary;
+            sumR += re; sum2R += re * re; sumI += im; sum2I += im * im;
+        }
+        double meanR = sumR / c.Length, sdR = Math.Sqrt(Math.Max(sum2R / c.Length - meanR * meanR, 1e-300));
+        double meanI = sumI / c.Length, sdI = Math.Sqrt(Math.Max(sum2I / c.Length - meanI * meanI, 1e-300));
+        double scaleR = Math.Sqrt(gridVariance) / sdR, scaleI = Math.Sqrt(gridVariance) / sdI;
+        var first = new float[c.Length]; var second = new float[c.Length];
+        for (int i = 0; i < c.Length; i++)
+        {
+            first[i] = (float)((c[i].Real - meanR) * scaleR);
+            second[i] = (float)((c[i].Imaginary - meanI) * scaleI);
+        }
+        return (new GustTile(first, size, firstLengthM / IntegralToScale / pointsPerScale, variance),
+                new GustTile(second, size, secondLengthM / IntegralToScale / pointsPerScale, variance));
     }
 
-    static GustTile Make(Complex[] c, int size, double integralLengthM, int pointsPerScale, double variance, double gridVariance, bool imaginary)
+    /// <summary>
+    /// Asks the processor to start loading the two rows of cells <see cref="At"/> will read at (a, b): a hint only (a
+    /// prefetch never faults and changes no value), so the race step can overlap the tiles' cache misses of several boards.
+    /// </summary>
+    public unsafe void Prefetch(double a, double b)
     {
-        double sum = 0, sum2 = 0;
-        for (int i = 0; i < c.Length; i++) { double v = imaginary ? c[i].Imaginary : c[i].Real; sum += v; sum2 += v * v; }
-        double mean = sum / c.Length, sd = Math.Sqrt(Math.Max(sum2 / c.Length - mean * mean, 1e-300));
-        double scale = Math.Sqrt(gridVariance) / sd;
-        var values = new float[c.Length];
-        for (int i = 0; i < c.Length; i++) values[i] = (float)(((imaginary ? c[i].Imaginary : c[i].Real) - mean) * scale);
-        return new GustTile(values, size, integralLengthM / IntegralToScale / pointsPerScale, variance);
+        if (!System.Runtime.Intrinsics.X86.Sse.IsSupported) return;
+        double x = a * _invSpacing, y = b * _invSpacing;
+        int n = Size, mask = n - 1;
+        int i0 = (int)((long)Math.Floor(x) & mask), j0 = (int)((long)Math.Floor(y) & mask);
+        int i1 = (i0 + 1) & mask;
+        ref float v = ref MemoryMarshal.GetArrayDataReference(_v);
+        System.Runtime.Intrinsics.X86.Sse.Prefetch0(Unsafe.AsPointer(ref Unsafe.Add(ref v, i0 * n + j0)));
+        System.Runtime.Intrinsics.X86.Sse.Prefetch0(Unsafe.AsPointer(ref Unsafe.Add(ref v, i1 * n + j0)));
     }
 
     /// <summary>Value at (a, b) metres in tile coordinates, periodic, bilinear.</summary>

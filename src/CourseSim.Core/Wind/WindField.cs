@@ -125,6 +125,20 @@ public sealed class WindField
     public long MemoryBytes => (_gu?.MemoryBytes ?? 0) + (_gv?.MemoryBytes ?? 0) + (_fu?.MemoryBytes ?? 0) + (_fv?.MemoryBytes ?? 0)
                                + _shiftTable.Length * sizeof(float);
 
+    /// <summary>
+    /// Starts loading the gust tiles' cells a <see cref="Sample"/> at (x, y, t) will read (the same tile coordinates): a
+    /// hint that changes no value, so a caller about to sample several places can overlap their cache misses.
+    /// </summary>
+    public void Prefetch(double x, double y, double t)
+    {
+        if (_gu is null) return;
+        double along = x * _ex + y * _ey, cross = x * _nx + y * _ny;
+        double adv = _u0 > 0.1 ? _u0 : 0.1;
+        double xi = along - adv * t;
+        double a = xi * _ca - cross * _sa, b = xi * _sa + cross * _ca;
+        _gu.Prefetch(a, b); _gv!.Prefetch(a, b); _fu!.Prefetch(a, b); _fv!.Prefetch(a, b);
+    }
+
     public WindSample Sample(double x, double y, double t)
     {
         var s = Settings;

@@ -126,7 +126,7 @@ public sealed class WindShadow
                     factor *= 1 - _deficit * w;
                     // Turn the air towards the source's apparent wind direction.
                     double diff = Unit.WrapDeg180(p.FromDeg - free.FromDeg);
-                    header += Math.Sign(diff) * Math.Min(Math.Abs(diff), _headerMax) * w;
+                    header += FastMath.Sign(diff) * Math.Min(Math.Abs(diff), _headerMax) * w;
                 }
             }
         if (factor == 1 && header == 0) return free;

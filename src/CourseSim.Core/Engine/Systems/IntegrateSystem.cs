@@ -34,7 +34,7 @@ public sealed class IntegrateSystem : RaceSystem
             double rate = man.Kind == Manoeuvre.Tack && man.Phase == 1 ? f.CrossYaw[b] : Math.Min(MaxYawRad, Math.Max(RigYawRad, v * f.InvCarveRadius[b]));
             double want = man.Kind == Manoeuvre.None ? blk.Intent[i].Heading : man.Phase >= 2 ? man.ExitHeading : p.Heading;
             // The tactic's heading is the course to make good through the water: steer the track (heading less leeway) onto it.
-            double side = Math.Sign(t.TrueAngleRad);
+            double side = FastMath.Sign(t.TrueAngleRad);
             double d = Unit.WrapRadPi(want - (p.Heading - side * m.Leeway));
             if (man.Kind is Manoeuvre.Tack or Manoeuvre.Gybe && man.Phase < 2) d = man.TurnSign * Math.PI; // keep turning the chosen way
             if (man.Kind == Manoeuvre.Fallen) d = 0;

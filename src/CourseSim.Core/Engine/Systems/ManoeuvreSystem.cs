@@ -30,7 +30,7 @@ public sealed class ManoeuvreSystem : RaceSystem
         double skill = f.Skill[b], dt = c.Dt;
         bool falls = c.Settings.Falls;
         double twa = Sailing.SignedAngle(sw.TrueFromDeg, pose.Heading);
-        double track = pose.Heading - Math.Sign(twa) * mo.Leeway;
+        double track = pose.Heading - FastMath.Sign(twa) * mo.Leeway;
         var rng = f.Stream(c.FallRng, b);
         switch (m.Kind)
         {
@@ -45,21 +45,21 @@ public sealed class ManoeuvreSystem : RaceSystem
                         if (rng.Uniform((ulong)c.StepIndex * 2) < hazard * dt) { Fall(c, ref m, ref st, b, pose, mo.Speed, "overpowered in a gust"); break; }
                     }
                     double wantTwa = Sailing.SignedAngle(sw.TrueFromDeg, intent.Heading);
-                    if (Math.Sign(wantTwa) != Math.Sign(twa) && twa != 0 && wantTwa != 0)
+                    if (FastMath.Sign(wantTwa) != FastMath.Sign(twa) && twa != 0 && wantTwa != 0)
                     {
                         // twa - turn passes 0 (a tack) or pi (a gybe) on the shortest way round.
                         bool throughWind = Math.Abs(twa) + Math.Abs(wantTwa) < 2 * Math.PI - Math.Abs(twa) - Math.Abs(wantTwa);
                         m.Kind = throughWind ? Manoeuvre.Tack : Manoeuvre.Gybe;
                         wake.TurnStartS = c.Time; wake.TurnStartNearestM = c.Grid.NearestM[b];
                         m.Phase = 0; m.Timer = 0; m.ExitHeading = intent.Heading;
-                        m.TurnSign = throughWind ? Math.Sign(twa) : -Math.Sign(twa);
+                        m.TurnSign = throughWind ? FastMath.Sign(twa) : -FastMath.Sign(twa);
                     }
                     break;
                 }
             case Manoeuvre.Tack:
                 m.Timer += dt;
                 if (m.Phase == 0 && Math.Abs(trim.ApparentAngleRad) < Unit.DegToRad(Tuning.TackCrossStartDeg)) { m.Phase = 1; m.Timer = 0; }
-                else if (m.Phase == 1 && Math.Sign(twa) == -Math.Sign(m.TurnSign) && Math.Abs(twa) >= Unit.DegToRad(Tuning.TackCrossStartDeg))
+                else if (m.Phase == 1 && FastMath.Sign(twa) == -FastMath.Sign(m.TurnSign) && Math.Abs(twa) >= Unit.DegToRad(Tuning.TackCrossStartDeg))
                 {
                     m.Phase = 2; m.Timer = 0; st.Tacks++;
                     c.AddEvent(b, RaceEventKind.Tack, pose);
@@ -70,7 +70,7 @@ public sealed class ManoeuvreSystem : RaceSystem
                 break;
             case Manoeuvre.Gybe:
                 m.Timer += dt;
-                if (m.Phase == 0 && Math.Sign(twa) == Math.Sign(m.TurnSign))
+                if (m.Phase == 0 && FastMath.Sign(twa) == FastMath.Sign(m.TurnSign))
                 {
                     m.Phase = 1; m.Timer = 0; st.Gybes++;
                     c.AddEvent(b, RaceEventKind.Gybe, pose);

@@ -37,6 +37,10 @@ public sealed class SenseWindSystem : RaceSystem
         int phase = c.SensePhase;
         double k = Math.Min(1, c.SenseEvery * c.Dt / Tuning.PerceptionLagS);
         var f = c.Fleet;
+        // The gust tiles are megabytes read at scattered cells: ask for every due board's cells first, so their cache
+        // misses overlap instead of each sample waiting for its own (a hint: no value changes).
+        for (int i = 0; i < blk.Count; i++)
+            if (first || f.SenseSlot[blk.Id[i].Value] == phase) c.Wind.Prefetch(blk.Pose[i].X, blk.Pose[i].Y, c.Time);
         for (int i = 0; i < blk.Count; i++)
         {
             int b = blk.Id[i].Value;

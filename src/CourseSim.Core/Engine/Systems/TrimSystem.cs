@@ -31,7 +31,7 @@ public sealed class TrimSystem : RaceSystem
             var rig = f.Rigs[b];
             double v = mo.Speed;
             // The track (heading less leeway) as the integrator left it.
-            double track = pose.Heading - Math.Sign(t.TrueAngleRad) * mo.Leeway;
+            double track = pose.Heading - FastMath.Sign(t.TrueAngleRad) * mo.Leeway;
             double ax = -sw.RigSpeed * sw.FromSin - v * mo.TrackSin, ay = -sw.RigSpeed * sw.FromCos - v * mo.TrackCos;
             double aws = Math.Sqrt(ax * ax + ay * ay);
             double appFrom = FastMath.Atan2(-ax, -ay); // to 1e-5 rad: the rig tables are in 1-degree steps
