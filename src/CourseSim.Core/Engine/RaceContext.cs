@@ -90,6 +90,9 @@ public sealed class RaceContext
     public int SensePhase => (int)(StepIndex % SenseEvery);
 
     public void AddEvent(int board, RaceEventKind kind, in Pose p, string detail = "") => Log.Add(Time, board, kind, p.X, p.Y, detail);
+    /// <summary>An event whose text is made when read: <c>string.Format(format, a, b, value)</c> (<see cref="RaceEvent"/>).</summary>
+    public void AddEvent(int board, RaceEventKind kind, in Pose p, string format, string? a, string? b, double value) =>
+        Log.Add(Time, board, kind, p.X, p.Y, format, a, b, value);
 
     /// <summary>A key for an ordered pair of boards (a's view of b).</summary>
     public static long PairKey(int a, int b) => ((long)a << 32) | (uint)b;

@@ -17,6 +17,10 @@ public sealed class RaceLog
     public void Add(double timeS, int board, RaceEventKind kind, double x, double y, string detail = "") =>
         Events.Add(new RaceEvent(timeS, board, kind, x, y, detail));
 
+    /// <summary>An event whose text is made when read (<see cref="RaceEvent.Detail"/>): nothing allocated here.</summary>
+    public void Add(double timeS, int board, RaceEventKind kind, double x, double y, string format, string? a, string? b, double value) =>
+        Events.Add(new RaceEvent(timeS, board, kind, x, y, format, a, b, value));
+
     /// <summary>A deep copy (events and incidents are immutable values).</summary>
     public RaceLog Copy()
     {
