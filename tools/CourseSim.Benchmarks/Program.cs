@@ -16,7 +16,8 @@ namespace CourseSim.Benchmarks;
 ///       again on one thread after a warm-up race, for a profiler: DOTNET_PerfMapEnabled=1 perf record -g -p PID;
 ///       --timings: each race's wall ns per board-step by system)
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- scale-quick [N] [S]   (N boards and 40 to +S s, per system)
-///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- alloc-by-system   (bytes each system allocates in the steady stretch)
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- alloc-by-system [--cold] [--from S] [--steps N]   (bytes each system allocates from S s (default +60) for N steps (4,000); --cold: no warm-up race)
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- report-alloc   (the report's bytes per board-step alone, after a warm-up race)
 /// Figures are printed, never asserted in tests (see DEVELOPERS.md).
 /// </summary>
 public static class Program
@@ -52,15 +53,25 @@ public static class Program
     static int AllocBySystem()
     {
         var rigs = new CourseSim.Equilibrium.RigCache();
+        // A warm-up race over the same stretch on the same rig cache (as `report` has run races before its bytes): the
+        // polar rows the race meets are built on first use, and that is construction, not the step.
+        var argv = System.Environment.GetCommandLineArgs();
+        bool cold = argv.Contains("--cold");
+        double Opt(string name, double d) { int i = Array.IndexOf(argv, name); return i >= 0 && i + 1 < argv.Length ? double.Parse(argv[i + 1], System.Globalization.CultureInfo.InvariantCulture) : d; }
+        double from = Opt("--from", 60); int steps = (int)Opt("--steps", 4000);
+        if (!cold) { var warm = new Race(Demo.Fleet40(), rigs.For); warm.Run(); }
         var race = new Race(Demo.Fleet40(), rigs.For);
-        while (!race.IsOver && race.Time < 60) race.Step();
+        while (!race.IsOver && race.Time < from) race.Step();
         var t = new CourseSim.Engine.SystemTimings();
         race.Timings = t;
         long a0 = GC.GetAllocatedBytesForCurrentThread();
         int e0 = race.Events.Count + race.Incidents.Count;
-        for (int i = 0; i < 4000 && !race.IsOver; i++) race.Step();
-        Console.WriteLine($"alloc-by-system: +60 s then 4,000 steps: {GC.GetAllocatedBytesForCurrentThread() - a0} B in all, {race.Events.Count + race.Incidents.Count - e0} events/incidents");
+        for (int i = 0; i < steps && !race.IsOver; i++) race.Step();
+        long all = GC.GetAllocatedBytesForCurrentThread() - a0;
+        Console.WriteLine($"alloc-by-system ({(cold ? "cold rig cache" : "after a warm-up race on the same rig cache")}): {from:+0;-0} s then {steps} steps: {all} B in all = " +
+                          $"{all / (40.0 * steps):F4} B/board-step, {race.Events.Count + race.Incidents.Count - e0} events/incidents");
         for (int i = 0; i < t.Names.Length; i++) Console.WriteLine($"  {t.Names[i],-20} {t.Bytes[i],10} B");
+        Console.WriteLine($"  {"outside the systems",-20} {all - t.Bytes.Sum(),10} B");
         return 0;
     }
 
@@ -89,6 +100,7 @@ public static class Program
         if (args.Length >= 1 && args[0] == "scale-quick") return ScaleQuick(args);
         if (args.Length >= 1 && args[0] == "race-loop") return RaceLoop(args);
         if (args.Length >= 1 && args[0] == "alloc-by-system") return AllocBySystem();
+        if (args.Length >= 1 && args[0] == "report-alloc") { Machine.PrintHeader(); RaceReport.AllocationOnly(); return 0; }
         if (args.Length == 0 || (args[0] != "report" && args[0] != "report-batch"))
         {
             BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);

@@ -139,6 +139,19 @@ public static class RaceReport
         Console.WriteLine($"  ({big} boards: {bigRun.TotalBoardSteps} board-steps in {bigRun.TotalCpuS:F1} s CPU; first minute / countdown {bigRun.NsPerBoardStep(1) / bigRun.NsPerBoardStep(0):F2} x)");
     }
 
+    /// <summary>
+    /// Section 4 of the report alone (`report-alloc`): a whole race of the demo first on the same rig cache, as the
+    /// report's earlier sections are (the JIT's tiers, the polar rows and run-up curves the race meets), then the bytes.
+    /// </summary>
+    public static void AllocationOnly()
+    {
+        var demo = Demo.Fleet40();
+        var cache = new RigCache();
+        var warm = RaceRun.Time(demo, cache.For, ["warm-up race"], [double.PositiveInfinity]);
+        Console.WriteLine($"warm-up race on the same rig cache: {warm.TotalCpuS:F1} s CPU, ended at {warm.EndTimeS:F0} s");
+        Allocation(demo, cache);
+    }
+
     static void Allocation(RaceSetup demo, RigCache cache)
     {
         Console.WriteLine();
@@ -149,6 +162,13 @@ public static class RaceReport
         for (int p = 0; p < names.Length; p++)
             Console.WriteLine($"  {names[p],-32} {run.Bytes[p],12} B over {run.BoardSteps[p],9} board-steps = {run.BytesPerBoardStep(p),8:F3} B/board-step; {run.Events[p],5} events/incidents logged");
         Console.WriteLine($"  steady stretch: {run.BytesPerBoardStep(2):F3} B/board-step (target 0: {Stats.Verdict(run.Bytes[2] == 0)}); whole race {run.TotalBytesPerBoardStep:F3} B/board-step");
+        // The baseline in the same run: the bare integrator's stepping, 40 agents (its arrays made before it is counted).
+        var bare = new BareIntegrator(40);
+        double sink = bare.Run(10);
+        long b0 = GC.GetAllocatedBytesForCurrentThread();
+        sink += bare.Run(4000);
+        long bareBytes = GC.GetAllocatedBytesForCurrentThread() - b0;
+        Console.WriteLine($"  baseline, bare integrator (40 agents, 4,000 steps): {bareBytes} B = {bareBytes / (40.0 * 4000):F3} B/agent-step{(sink == 42 ? " " : "")}");
         Console.WriteLine($"  recorder room: {run.RecorderStartBytes / 1024.0:F0} KiB after construction (sized from the engine's estimate of {run.EstimatedS:F0} s), " +
                           $"{run.RecorderEndBytes / 1024.0:F0} KiB at the end (race ended at {run.EndTimeS:F0} s)");
         Console.WriteLine("  (the BenchmarkDotNet view of the same: --filter '*SteadyRaceBenchmarks*', Allocated column = bytes per board-step)");

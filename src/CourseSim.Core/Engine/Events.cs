@@ -10,8 +10,38 @@ public sealed record RaceIncident(double TimeS, double X, double Y, int KeepClea
 
 public enum RaceEventKind : byte { Started, Ocs, Cleared, Rounded, WrongSide, Tack, Gybe, Fall, Finished, NotFinished, GiveWay, Contact, PenaltyServed }
 
-/// <summary>Something that happened in the race: when (s from the signal), where, to which board, and a detail.</summary>
-public readonly record struct RaceEvent(double TimeS, int Board, RaceEventKind Kind, double X, double Y, string Detail);
+/// <summary>
+/// Something that happened in the race: when (s from the signal), where, to which board, and a detail. The step keeps
+/// the detail's parts (a composite format, up to two strings it already holds, such as a board's or a mark's name, and a
+/// number) and the text is made when <see cref="Detail"/> is read, so recording an event allocates nothing in the step
+/// (issue 17: 0 bytes per board-step). The text is the one the step used to build: the same format, arguments and
+/// culture as the interpolated string it replaces.
+/// </summary>
+public readonly record struct RaceEvent
+{
+    public double TimeS { get; }
+    public int Board { get; }
+    public RaceEventKind Kind { get; }
+    public double X { get; }
+    public double Y { get; }
+    // _format null: the detail is _a as it stands ("" when null); else string.Format(_format, _a, _b, _value).
+    readonly string? _format, _a, _b;
+    readonly double _value;
+
+    /// <summary>An event whose detail is a text already made.</summary>
+    public RaceEvent(double timeS, int board, RaceEventKind kind, double x, double y, string detail)
+        : this(timeS, board, kind, x, y, null, detail, null, 0) { }
+
+    /// <summary>An event whose detail is made when read: <c>string.Format(format, a, b, value)</c> ({0} a, {1} b, {2} value).</summary>
+    public RaceEvent(double timeS, int board, RaceEventKind kind, double x, double y, string? format, string? a, string? b, double value)
+    {
+        TimeS = timeS; Board = board; Kind = kind; X = x; Y = y;
+        _format = format; _a = a; _b = b; _value = value;
+    }
+
+    /// <summary>The event's text (made on each read; equal texts every time).</summary>
+    public string Detail => _format is null ? _a ?? "" : string.Format(_format, _a, _b, _value);
+}
 
 /// <summary>
 /// One board's result. <see cref="Penalties"/>: one-turn penalties taken; <see cref="PenaltiesNotTaken"/>: penalties

@@ -17,12 +17,12 @@ public sealed class NeighbourGrid
     int[] _fill;
 
     /// <summary>Pairs (a, b) within <see cref="RangeM"/>, in canonical order.</summary>
-    public readonly List<(int A, int B)> Near = new();
+    public readonly List<(int A, int B)> Near;
     /// <summary>Pairs within the contact watch distance.</summary>
-    public readonly List<(int A, int B)> Close = new();
+    public readonly List<(int A, int B)> Close;
     /// <summary>Each board's distance to its nearest live neighbour, m (+infinity when none within range).</summary>
     public readonly double[] NearestM;
-    int[] _adjStart, _adj = new int[64];
+    int[] _adjStart, _adj;
 
     public double RangeM { get; }
 
@@ -33,6 +33,10 @@ public sealed class NeighbourGrid
         NearestM = new double[boards];
         _adjStart = new int[boards + 1];
         _fill = new int[boards];
+        // Room up front for a bunched start (the 40-board demo's countdown grew these to about 25 pairs a board), so
+        // the step does not grow them; they still grow, once, for a denser fleet.
+        Near = new(32 * Math.Max(1, boards)); Close = new(4 * Math.Max(1, boards));
+        _adj = new int[Math.Max(64, 64 * boards)];
     }
 
     /// <summary>The neighbours of board b within range (canonical order).</summary>

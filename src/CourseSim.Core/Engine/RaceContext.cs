@@ -45,9 +45,9 @@ public sealed class RaceContext
     public CounterRng TacticRng { get; }
 
     /// <summary>The rules' memory of conflicts a rider has seen as theirs to keep clear of: key (keep-clear board, other).</summary>
-    public Dictionary<long, Foreseen> Foreseen { get; internal set; } = new(PairKeys.Instance);
+    public Dictionary<long, Foreseen> Foreseen { get; internal set; }
     /// <summary>Pairs in contact now (a contact is judged once, when it begins).</summary>
-    public HashSet<long> Touching { get; internal set; } = new(PairKeys.Instance);
+    public HashSet<long> Touching { get; internal set; }
     /// <summary>Each board's speed at the last lookout (for the acceleration a rider reads), m/s.</summary>
     public double[] LookoutSpeed { get; }
     /// <summary>Each board's acceleration as read at the last lookout, m/s2.</summary>
@@ -66,6 +66,9 @@ public sealed class RaceContext
         int n = fleet.Count;
         Snapshot = new StepSnapshot(n);
         Grid = new NeighbourGrid(n, RulesRangeM);
+        // Room up front (capacity changes no order: entries are kept in insertion order), so the step does not grow them.
+        Foreseen = new(16 * Math.Max(1, n), PairKeys.Instance);
+        Touching = new(Math.Max(1, n), PairKeys.Instance);
         Log = new RaceLog(n);
         Recorder = new Recorder(n, setup.Race.RecordIntervalS, -setup.Race.CountdownS);
         FallRng = new CounterRng(setup.Race.Seed, CounterRng.Streams.Falls);
@@ -90,6 +93,9 @@ public sealed class RaceContext
     public int SensePhase => (int)(StepIndex % SenseEvery);
 
     public void AddEvent(int board, RaceEventKind kind, in Pose p, string detail = "") => Log.Add(Time, board, kind, p.X, p.Y, detail);
+    /// <summary>An event whose text is made when read: <c>string.Format(format, a, b, value)</c> (<see cref="RaceEvent"/>).</summary>
+    public void AddEvent(int board, RaceEventKind kind, in Pose p, string format, string? a, string? b, double value) =>
+        Log.Add(Time, board, kind, p.X, p.Y, format, a, b, value);
 
     /// <summary>A key for an ordered pair of boards (a's view of b).</summary>
     public static long PairKey(int a, int b) => ((long)a << 32) | (uint)b;

@@ -71,8 +71,6 @@ public sealed class Lookout : RaceSystem
     public override string Writes => "GiveWay, Wake (heading samples), own foreseen conflicts, events";
 
     readonly List<int> _threats = new();
-    // The give-way events' texts, made once per (other board, rule): the step allocates none once they are made.
-    readonly Dictionary<long, string> _texts = new();
 
     /// <summary>Interval between the heading samples kept for the judge's rule 16.1, s.</summary>
     public const double HeadingSampleS = 1;
@@ -341,11 +339,10 @@ public sealed class Lookout : RaceSystem
         gw.On = true; gw.Other = other; gw.Rule = rule; gw.Episodes++;
         if (!double.IsNaN(pendingAt)) gw.AtS = Math.Min(gw.AtS, pendingAt); // seen while deciding: acted on with it
         var s = c.Snapshot;
-        long key = ((long)other << 8) | rule;
-        if (!_texts.TryGetValue(key, out var text))
-            _texts[key] = text = rule == Judge.Rule16 ? $"puts off a tack or gybe near {c.Fleet.Names[other]} (rule 16)"
-                : rule == Judge.Rule161 ? $"holds its course: room for {c.Fleet.Names[other]} to keep clear (rule 16.1)"
-                : $"keeps clear of {c.Fleet.Names[other]} (rule {Judge.RuleName(rule)})";
-        c.Log.Add(c.Time, k, RaceEventKind.GiveWay, s.X[k], s.Y[k], text);
+        // The text is made when read (RaceEvent.Detail): the names and rule names are strings the race already holds.
+        string format = rule == Judge.Rule16 ? "puts off a tack or gybe near {0} (rule 16)"
+            : rule == Judge.Rule161 ? "holds its course: room for {0} to keep clear (rule 16.1)"
+            : "keeps clear of {0} (rule {1})";
+        c.Log.Add(c.Time, k, RaceEventKind.GiveWay, s.X[k], s.Y[k], format, c.Fleet.Names[other], Judge.RuleName(rule), 0);
     }
 }

@@ -38,7 +38,7 @@ public sealed class CourseProgressSystem : RaceSystem
                 if (time < 0 && t1 >= 0 && line.Ahead(e1) > 0 && WithinLine(line, e1))
                 {
                     s.State = RaceState.Returning; s.Ocs = true;
-                    c.AddEvent(b, RaceEventKind.Ocs, pose, $"on the course side at the signal (by {line.Ahead(e1):0.00} m)");
+                    c.AddEvent(b, RaceEventKind.Ocs, pose, "on the course side at the signal (by {2:0.00} m)", null, null, line.Ahead(e1));
                 }
                 // Started: the leading end is over the line between its ends, coming from below (the trailing end was
                 // below it a step ago; a turn can swing the bow over without the hull's centre moving much).
@@ -78,7 +78,7 @@ public sealed class CourseProgressSystem : RaceSystem
                     else if (r < 0)
                     {
                         s.WrongSide++;
-                        c.AddEvent(b, RaceEventKind.WrongSide, pose, $"passed {step.Name} on the wrong side: must go back round it");
+                        c.AddEvent(b, RaceEventKind.WrongSide, pose, "passed {0} on the wrong side: must go back round it", step.Name, null, 0);
                     }
                     break;
                 }

@@ -102,6 +102,6 @@ public sealed class ManoeuvreSystem : RaceSystem
     {
         m.Kind = Manoeuvre.Fallen; m.Phase = 0; m.Timer = 0;
         st.Falls++;
-        c.AddEvent(board, RaceEventKind.Fall, p, $"{why} at {Unit.MsToKnots(speed):F1} kn");
+        c.AddEvent(board, RaceEventKind.Fall, p, "{0} at {2:F1} kn", why, null, Unit.MsToKnots(speed)); // the text is made when read
     }
 }
