@@ -44,8 +44,8 @@ public static class StartPlanner
     public const double BeyondM = 10;
     /// <summary>How far inside an end of the line a rider aims, m (common practice: close to the mark, not at it).</summary>
     public const double EndInsetM = 5;
-    /// <summary>How far inside the end of the line its start tack sails towards a rider's spot lies at least, m (model
-    /// value: about what a rider luffing on that tack drifts along the line in half a minute of holding, 13-15 m in the
+    /// <summary>Least distance, m, from a rider's spot to the end of the line the start tack sails towards (model value:
+    /// about what a rider luffing on that tack drifts along the line while holding, 13-15 m over 25-30 s in the
     /// forty-board demo; docs/tactics.md).</summary>
     public const double EndDriftM = 15;
     /// <summary>Early by more than this, s, the rider eases off (model value: half a decision interval's worth).</summary>
@@ -66,7 +66,7 @@ public static class StartPlanner
         {
             var entry = c.Setup.Boards[b];
             double inset = Math.Min(0.5, EndInsetM / Math.Max(line.Length, 1e-9));
-            double drift = Math.Min(0.5, EndDriftM / Math.Max(line.Length, 1e-9));
+            double drift = Math.Min(1 - inset, EndDriftM / Math.Max(line.Length, 1e-9)); // at most 1 - inset: the clamp's bounds never cross
             double share = StartPosition(c, b, entry);
             var spot = line.A + Math.Clamp(share, inset, 1 - inset) * (line.B - line.A);
             // The first leg's heading from the spot, on starboard when beating.

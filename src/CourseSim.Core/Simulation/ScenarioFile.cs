@@ -41,7 +41,7 @@ public static class ScenarioFile
         KeySpec.Derived("boards.*.params.*", -1e6, 1e6, "a parameter of the board's tactic (docs/tactics.md lists each tactic's)"),
         KeySpec.Text("boards.*.rival", "", "for tactics that watch a rival (cover): the rival's board id ([boards.ID])"),
         KeySpec.Text("boards.*.start", "line-position", "start plan: line-position (line_position, or spread), favoured-end (the upwind end as the rider reads the wind), pin-end, boat-end", StartPlans),
-        KeySpec.Derived("boards.*.line_position", 0, 1, "where on the start line the rider aims: 0 pin (left) end .. 1 right end; default: spread"),
+        KeySpec.Derived("boards.*.line_position", 0, 1, "where on the start line the rider aims: 0 pin (left) end .. 1 right end, kept at least 5 m inside the ends and 15 m inside the end the start tack sails to (docs/tactics.md); default: spread"),
         KeySpec.Derived("boards.*.start_margin_s", -5, 30, "when after the signal the rider plans to reach the line on time-on-distance, s (default: 1.5 s with the rider's misjudgement)"),
         KeySpec.Flag("rules.give_way", true, "riders look out and keep clear as the right-of-way rules ask (false: contacts are only judged)"),
         KeySpec.Flag("rules.penalties", true, "a board at fault in a contact takes a one-turn penalty"),

@@ -88,6 +88,28 @@ public class StartTests(ITestOutputHelper output)
             }
     }
 
+    [Theory]
+    [InlineData(0.0, 150)] [InlineData(1.0, 150)] [InlineData(0.0, 20)] [InlineData(1.0, 20)] [InlineData(0.5, 20)]
+    public void SpotsKeepClearOfTheEndsAndFurtherFromTheEndTheStartTackSailsTo(double linePosition, double lineM)
+    {
+        // Every spot at least 5 m inside the ends, and at least StartPlanner.EndDriftM (15 m) inside the end the start
+        // tack sails towards: on this upwind start, starboard close-hauled sails towards end A, the pin (docs/tactics.md,
+        // "Start plans"). A 20 m line (the least start_line_m allows) still fits both: 15 m from A, 5 m from B.
+        var text = OneBoard.Replace("line_position = 0.5", $"line_position = {linePosition.ToString(System.Globalization.CultureInfo.InvariantCulture)}")
+            .Replace("start_line_m = 150", $"start_line_m = {lineM.ToString(System.Globalization.CultureInfo.InvariantCulture)}");
+        var race = new Race(EngineTestKit.Parse(text));
+        var line = race.Course.Start;
+        var plan = race.World.Get<StartPlan>(race.EntityOf(0));
+        var spot = new CourseSim.Courses.Vec2(plan.SpotX, plan.SpotY);
+        double fromA = (spot - line.A).Length, fromB = (spot - line.B).Length;
+        output.WriteLine($"line {lineM} m, line_position {linePosition}: spot {fromA:F2} m from A, {fromB:F2} m from B");
+        Assert.Equal(line.Length, fromA + fromB, 6);
+        Assert.True(fromA >= StartPlanner.EndDriftM - 1e-6, $"{fromA:F2} m from end A");
+        Assert.True(fromB >= StartPlanner.EndInsetM - 1e-6, $"{fromB:F2} m from end B");
+        // Within that the rider's own line_position stands: 1 at 150 m is the 5 m inset from B.
+        if (lineM == 150 && linePosition == 1.0) Assert.Equal(StartPlanner.EndInsetM, fromB, 6);
+    }
+
     static string OneBoard => EngineTestKit.SteadyWind(14) +
         "[race]\ncountdown_s = 30\ntime_limit_s = 120\nfalls = false\n" +
         "[course]\nkind = \"windward-leeward\"\nlaps = 1\nbeat_m = 400\nstart_line_m = 150\n" +

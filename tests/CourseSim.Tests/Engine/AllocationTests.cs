@@ -8,7 +8,8 @@ namespace CourseSim.Tests.Engine;
 /// thread allocates (GC.GetAllocatedBytesForCurrentThread counts every managed allocation made on it) while the
 /// 40-board demo steps through a steady stretch. The step allocating in a long race means garbage collections in every
 /// batch of races, and a pause that grows with the heap; the fix is in the step (events keep their numbers and format
-/// their text when read, run-up curves built before the race), so any new allocation there fails this test.
+/// their text when read; run-up curves and polar rows are built on first use and kept in the rig cache, which a
+/// warm-up race fills), so any new allocation there fails this test.
 /// </summary>
 public class AllocationTests
 {

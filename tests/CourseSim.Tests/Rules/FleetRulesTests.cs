@@ -28,7 +28,7 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
         foreach (var i in res.Incidents)
             output.WriteLine($"{i.TimeS,7:F1} s ({i.X:F0}, {i.Y:F0}) rule {i.Rule} keep clear {i.KeepClear} other {i.RightOfWay}: {i.Detail}");
         Assert.True(res.Boards.Count(b => b.Finished) >= 36, $"{res.Boards.Count(b => b.Finished)} of 40 finished");
-        // Known defect (issue 12): with the planing board model (slow, off-the-plane runs; tacks that nearly stop the
+        // Known limit (issue 12): with the planing board model (slow, off-the-plane runs; tacks that nearly stop the
         // board) the give-way logic leaves contacts it could have avoided, where the old board model left 0.1 per race
         // (docs/tactics.md, "Measured": 179 of 490 contacts avoidable over seeds 1-60). This seed has 1 (a rule 18 contact at the
         // finishing mark, 837 s), none at the start. The demo race is held to at most 3, each printed, so that a worse give-way logic still fails here.
@@ -37,7 +37,7 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
         // The start is clean (3 Dec 2026, issue 12): before, a rider who could not fetch the line at the pin end on
         // starboard tacked onto port 5.5 s before the signal and three starboard boards hit it (rule 10, 2.7-3.8 s).
         // Now spots near that end are taken far enough in for the holding drift (StartPlanner.EndDriftM).
-        Assert.DoesNotContain(res.Incidents, i => i.TimeS < 30 && i.Rule == "10");
+        Assert.DoesNotContain(res.Incidents, i => i.TimeS < 30);
         Assert.All(res.Incidents, i => Assert.Contains(i.Rule, new[] { "10", "11", "12", "13", "15", "16.1", "18", "22", "43.1(a)" }));
         // Riders did give way (the logic was exercised, not idle), and each penalty given was taken.
         Assert.True(res.Boards.Sum(b => b.GiveWays) > 100, $"{res.Boards.Sum(b => b.GiveWays)} give-way episodes");
