@@ -130,8 +130,8 @@ public sealed class ContactSystem : RaceSystem
         foreach (int z in c.Grid.Neighbours(keep))
         {
             if (z == row || !s.Live[z] || s.Capsized[z]) continue;
-            var (t, d) = Judge.Cpa(s, keep, sinK, cosK, vK, z);
-            if (d >= Lookout.ConflictM + Lookout.ConflictPerMs * Judge.ClosingSpeed(s, sinK, cosK, vK, z)) continue;
+            var (t, d, closing) = Judge.CpaAndClosing(s, keep, sinK, cosK, vK, z);
+            if (d >= Lookout.ConflictM + Lookout.ConflictPerMs * closing) continue;
             var (zKeep, zRule) = Judge.Decide(c, z, s.Heading[z], keep);
             if (zKeep == z && zRule is not Judge.Rule18 && !s.KeepingClear[z] && t < Lookout.LastMomentS)
             {

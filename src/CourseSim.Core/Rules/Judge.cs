@@ -124,21 +124,8 @@ public static class Judge
 
     /// <summary>
     /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track whose
-    /// sine and cosine are given, at va (m/s), b holding its present track and speed (tracks, not headings: leeway is large at low speed).
-    /// </summary>
-    public static (double T, double D) Cpa(StepSnapshot s, int a, double sinHa, double cosHa, double va, int b)
-    {
-        double rx = s.X[b] - s.X[a], ry = s.Y[b] - s.Y[a];
-        double vx = s.Speed[b] * s.TrackSin[b] - va * sinHa, vy = s.Speed[b] * s.TrackCos[b] - va * cosHa;
-        double vv = vx * vx + vy * vy;
-        double t = vv < 1e-9 ? 0 : Math.Clamp(-(rx * vx + ry * vy) / vv, 0, Lookout.LookaheadS);
-        double dx = rx + vx * t, dy = ry + vy * t;
-        return (t, Math.Sqrt(dx * dx + dy * dy));
-    }
-
-    /// <summary>
-    /// <see cref="Cpa"/> and <see cref="ClosingSpeed"/> together: the relative velocity is worked out once (the same
-    /// expressions as each works out on its own, so the same bits).
+    /// sine and cosine are given, at va (m/s), b holding its present track and speed (tracks, not headings: leeway is
+    /// large at low speed); and the closing speed (<see cref="ClosingSpeed"/>, from the same relative velocity).
     /// </summary>
     public static (double T, double D, double Closing) CpaAndClosing(StepSnapshot s, int a, double sinHa, double cosHa, double va, int b)
     {
