@@ -25,12 +25,21 @@ public static class Statistics
     {
         if (n <= 0) throw new ArgumentOutOfRangeException(nameof(n), "a share needs at least one trial");
         if (k < 0 || k > n) throw new ArgumentOutOfRangeException(nameof(k), $"successes {k} outside 0..{n}");
-        double z = Normal.InvCDF(0, 1, 1 - (1 - confidence) / 2);
-        double p = (double)k / n, z2 = z * z;
+        double p = (double)k / n;
+        var (low, high) = WilsonBounds(p, n, Normal.InvCDF(0, 1, 1 - (1 - confidence) / 2));
+        return new Interval(p, low, high);
+    }
+
+    /// <summary>
+    /// The Wilson score bounds of a share p over n trials (n may be an effective, non-whole sample size) at normal
+    /// quantile z. At p = 0 and p = 1 the bound is exactly 0 or 1 (centre and half agree there; rounding would leave 1e-17).
+    /// </summary>
+    static (double Low, double High) WilsonBounds(double p, double n, double z)
+    {
+        double z2 = z * z;
         double centre = (p + z2 / (2 * n)) / (1 + z2 / n);
         double half = z / (1 + z2 / n) * Math.Sqrt(p * (1 - p) / n + z2 / (4.0 * n * n));
-        // At k = 0 and k = n the bound is exactly 0 or 1 (centre and half agree there; rounding would leave 1e-17).
-        return new Interval(p, k == 0 ? 0 : Math.Max(0, centre - half), k == n ? 1 : Math.Min(1, centre + half));
+        return (p <= 0 ? 0 : Math.Max(0, centre - half), p >= 1 ? 1 : Math.Min(1, centre + half));
     }
 
     /// <summary>
@@ -64,10 +73,8 @@ public static class Statistics
             rho = den > 1e-12 ? Math.Clamp((msb - msw) / den, 0, 1) : 1;
         }
         double nEff = total / (1 + (m0 - 1) * rho);
-        double z = Normal.InvCDF(0, 1, 1 - (1 - confidence) / 2), z2 = z * z;
-        double centre = (p + z2 / (2 * nEff)) / (1 + z2 / nEff);
-        double half = z / (1 + z2 / nEff) * Math.Sqrt(p * (1 - p) / nEff + z2 / (4 * nEff * nEff));
-        return new Interval(p, p <= 0 ? 0 : Math.Max(0, centre - half), p >= 1 ? 1 : Math.Min(1, centre + half));
+        var (low, high) = WilsonBounds(p, nEff, Normal.InvCDF(0, 1, 1 - (1 - confidence) / 2));
+        return new Interval(p, low, high);
     }
 
     /// <summary>
