@@ -62,11 +62,12 @@ public static class StartPlanner
         var f = c.Fleet; var w = c.World;
         double tws = Unit.KnotsToMs(c.Setup.Wind.SpeedKn);
         var placed = new List<Vec2>();
+        // Least shares of the line kept from its ends (drift at most 1 - inset: the clamp's bounds below never cross).
+        double inset = Math.Min(0.5, EndInsetM / Math.Max(line.Length, 1e-9));
+        double drift = Math.Min(1 - inset, EndDriftM / Math.Max(line.Length, 1e-9));
         foreach (int b in f.ByRank)
         {
             var entry = c.Setup.Boards[b];
-            double inset = Math.Min(0.5, EndInsetM / Math.Max(line.Length, 1e-9));
-            double drift = Math.Min(1 - inset, EndDriftM / Math.Max(line.Length, 1e-9)); // at most 1 - inset: the clamp's bounds never cross
             double share = StartPosition(c, b, entry);
             var spot = line.A + Math.Clamp(share, inset, 1 - inset) * (line.B - line.A);
             // The first leg's heading from the spot, on starboard when beating.

@@ -214,9 +214,10 @@ public sealed class Lookout : RaceSystem
                 // A gybe blocked by a board alongside for more than a moment: the rider sheets out and drops astern of
                 // it, to gybe across its wake, rather than sail on past the layline beside it.
                 // So does one whose tack a board alongside to windward on the same tack has blocked for a few seconds.
+                double ox = s.X[k] - s.X[firstOther], oy = s.Y[k] - s.Y[firstOther];
                 bool dropAstern = gybing ? c.Time - gw.DeferS >= GybeWaitS
                     : c.Time > 0 && c.Time - gw.DeferS >= TackWaitS && SameTack(s, k, firstOther) && WindwardOffset(s, k, firstOther) < 0
-                      && Math.Sqrt((s.X[k] - s.X[firstOther]) * (s.X[k] - s.X[firstOther]) + (s.Y[k] - s.Y[firstOther]) * (s.Y[k] - s.Y[firstOther])) < TackBlockedNearM;
+                      && Math.Sqrt(ox * ox + oy * oy) < TackBlockedNearM;
                 gw.Power = dropAstern ? 0 : 1;
                 return;
             }

@@ -38,8 +38,10 @@ public static class PenaltyTurn
                 if (Math.Abs(twa) < Unit.DegToRad(60)) pen.Stage = 2;
                 break;
             case 2:
-                h = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s ? At(s * 45) : At(-s * 45);
-                if (crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s && DropsBack(c, b, pose)) pw = 0;
+                // Waiting to be well clear for the tack: still on the original tack, nothing begun.
+                bool waitTack = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s;
+                h = waitTack ? At(s * 45) : At(-s * 45);
+                if (waitTack && DropsBack(c, b, pose)) pw = 0;
                 if (man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s) pen.Stage = 3;
                 break;
             case 3:
@@ -47,8 +49,10 @@ public static class PenaltyTurn
                 if (Math.Abs(twa) > Unit.DegToRad(130)) pen.Stage = 4;
                 break;
             case 4:
-                h = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s ? At(-s * 150) : At(s * 150);
-                if (crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s && DropsBack(c, b, pose)) pw = 0;
+                // Waiting to be well clear for the gybe: still on the other tack, nothing begun.
+                bool waitGybe = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s;
+                h = waitGybe ? At(-s * 150) : At(s * 150);
+                if (waitGybe && DropsBack(c, b, pose)) pw = 0;
                 if (man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s)
                 {
                     pen.Stage = 0; pen.Owed--; pen.Taken++; per.LastTurnS = c.Time;
