@@ -132,11 +132,17 @@ public sealed class WindField
     public void Prefetch(double x, double y, double t)
     {
         if (_gu is null) return;
-        double along = x * _ex + y * _ey, cross = x * _nx + y * _ny;
-        double adv = _u0 > 0.1 ? _u0 : 0.1;
-        double xi = along - adv * t;
-        double a = xi * _ca - cross * _sa, b = xi * _sa + cross * _ca;
+        var (a, b) = TileAt(x * _ex + y * _ey, x * _nx + y * _ny, _u0 > 0.1 ? _u0 : 0.1, t);
         _gu.Prefetch(a, b); _gv!.Prefetch(a, b); _fu!.Prefetch(a, b); _fv!.Prefetch(a, b);
+    }
+
+    /// <summary>The gust tiles' coordinates of a point (along, cross: m downwind and across) at t, the pattern carried
+    /// downwind at adv m/s and turned by the tiles' angle; <see cref="Sample"/> and <see cref="Prefetch"/> read the same cells.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    (double A, double B) TileAt(double along, double cross, double adv, double t)
+    {
+        double xi = along - adv * t;
+        return (xi * _ca - cross * _sa, xi * _sa + cross * _ca);
     }
 
     public WindSample Sample(double x, double y, double t)
@@ -164,8 +170,7 @@ public sealed class WindField
         u = Math.Max(u, 0);
         if (_gu is not null)
         {
-            double xi = along - adv * t;
-            double a = xi * _ca - cross * _sa, b = xi * _sa + cross * _ca;
+            var (a, b) = TileAt(along, cross, adv, t);
             double du = _sigmaU * (_gu.At(a, b) + _fu!.At(a, b));
             double dv = 0.8 * _sigmaU * (_gv!.At(a, b) + _fv!.At(a, b));
             double uu = Math.Max(u + du, 0);
