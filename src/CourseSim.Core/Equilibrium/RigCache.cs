@@ -12,7 +12,13 @@ namespace CourseSim.Equilibrium;
 /// </summary>
 public sealed class RigCache
 {
-    sealed record Entry(RigPolar Polar, ulong LoadedRows, bool LoadedTables);
+    /// <summary>A set-up's polar and what the disk holds of it (as loaded, then as saved).</summary>
+    sealed class Entry(RigPolar polar, ulong onDisk, bool tablesOnDisk)
+    {
+        public RigPolar Polar { get; } = polar;
+        public ulong OnDisk = onDisk;
+        public bool TablesOnDisk = tablesOnDisk;
+    }
 
     readonly ConcurrentDictionary<Equipment, Lazy<Entry>> _rigs = new();
 
@@ -41,8 +47,18 @@ public sealed class RigCache
     {
         if (Store is null) return 0;
         int written = 0;
-        foreach (var lazy in _rigs.Values)
-            if (lazy.IsValueCreated && Store.Save(lazy.Value.Polar, lazy.Value.LoadedRows, lazy.Value.LoadedTables)) written++;
+        lock (_rigs)
+        {
+            foreach (var lazy in _rigs.Values)
+            {
+                if (!lazy.IsValueCreated) continue;
+                var e = lazy.Value;
+                ulong rows = e.Polar.ReadyRows;
+                if (!Store.Save(e.Polar, e.OnDisk, e.TablesOnDisk)) continue;
+                e.OnDisk |= rows; e.TablesOnDisk = true;
+                written++;
+            }
+        }
         return written;
     }
 }
