@@ -62,7 +62,7 @@ public sealed class HullModel
     /// <summary>Length of the resistance table (the disk cache checks a table read back against it).</summary>
     internal const int TableLength = (int)(TableMax / TableStep) + 1;
 
-    /// <summary>A copy of the resistance table (the disk cache, <see cref="Equilibrium.RigTableStore"/>).</summary>
+    /// <summary>A copy of the resistance table (for the rig tables kept on disk between runs).</summary>
     internal HullState[] ExportTable() => (HullState[])_table.Clone();
 
     /// <summary>The hull with its resistance table given (as built before for this very hull, read back from the disk
