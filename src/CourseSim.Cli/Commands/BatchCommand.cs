@@ -21,12 +21,15 @@ public static class BatchCommand
         var outDir = new Option<string?>("--out") { Description = "folder for results.csv, summary.json and runs/ (default out/batch-NAME)" };
         var resume = new Option<bool>("--resume") { Description = "keep the races already in DIR/runs and run only the rest" };
         var set = new Option<string[]>("--set") { Description = "override an experiment key, key=value (repeatable)" };
-        var cmd = new Command("batch", "Race every variant of an experiment many times, paired by seed, and compare them.") { file, races, threads, outDir, resume, set };
-        cmd.SetAction(pr => Run(pr.GetValue(file)!, pr.GetValue(races), pr.GetValue(threads), pr.GetValue(outDir), pr.GetValue(resume), pr.GetValue(set) ?? [], stdout, stderr));
+        var noCache = TableCacheOption.Create();
+        var cmd = new Command("batch", "Race every variant of an experiment many times, paired by seed, and compare them.") { file, races, threads, outDir, resume, set, noCache };
+        cmd.SetAction(pr => Run(pr.GetValue(file)!, pr.GetValue(races), pr.GetValue(threads), pr.GetValue(outDir), pr.GetValue(resume), pr.GetValue(set) ?? [], stdout, stderr,
+            TableCacheOption.Rigs(pr.GetValue(noCache), stderr)));
         return cmd;
     }
 
-    static int Run(string path, int? races, int threads, string? outDir, bool resume, string[] sets, TextWriter stdout, TextWriter stderr)
+    static int Run(string path, int? races, int threads, string? outDir, bool resume, string[] sets, TextWriter stdout, TextWriter stderr,
+        Equilibrium.RigCache rigs)
     {
         if (races is < 1 or > 100000) throw new UsageException($"--races: {races} is out of range (accepted 1 to 100000)");
         if (threads is < 1 or > 256) throw new UsageException($"--threads: {threads} is out of range (accepted 1 to 256)");
@@ -59,7 +62,7 @@ public static class BatchCommand
                             double rate = (p.Done - p.Resumed) / Math.Max(clock.Elapsed.TotalSeconds, 1e-9);
                             task.Description = $"{p.Done}/{p.Total} races, {rate:0.0}/s";
                             task.Value = p.Done;
-                        }, cts.Token, warn);
+                        }, cts.Token, warn, rigs: rigs);
                     });
             }
             else
@@ -75,10 +78,14 @@ public static class BatchCommand
                     double rate = (p.Done - p.Resumed) / Math.Max(clock.Elapsed.TotalSeconds, 1e-9);
                     double left = rate > 0 ? (p.Total - p.Done) / rate : double.NaN;
                     lock (stderr) stderr.WriteLine($"batch: {p.Done}/{p.Total} races ({rate:0.0} races/s{(double.IsNaN(left) ? "" : $", about {left:0} s left")})");
-                }, cts.Token, warn);
+                }, cts.Token, warn, rigs: rigs);
             }
         }
-        finally { Console.CancelKeyPress -= onCancel; }
+        finally
+        {
+            Console.CancelKeyPress -= onCancel;
+            rigs.Save(); // once for the whole batch: the rig tables its races built, for the next run
+        }
         var metrics = BatchRunner.ReadMetrics(spec, dir);
         int raceCount = rows.Select(r => (r.Variant, r.Race)).Distinct().Count();
         var findings = BatchFindings.Of(spec, rows, metrics, !cts.IsCancellationRequested, Peeking.Warning(looks, previousRaces, resumed, raceCount));

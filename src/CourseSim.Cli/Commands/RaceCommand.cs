@@ -29,28 +29,33 @@ public static class RaceCommand
         var fromBatch = new Option<string?>("--from-batch") { Description = "race again race --race of variant --variant of the batch in this folder, exactly (SCENARIO: the experiment or its scenario)" };
         var raceNo = new Option<int?>("--race") { Description = "with --from-batch: the race number (0 for the first, as in runs/VARIANT/NNNNNN.csv)" };
         var variant = new Option<string?>("--variant") { Description = "with --from-batch: the variant's name" };
-        var cmd = new Command("race", "Race a scenario's fleet round its course in its wind, step by step from the board physics.") { file, seed, set, outDir, format, view, port, host, pace, fromBatch, raceNo, variant };
+        var noCache = TableCacheOption.Create();
+        var cmd = new Command("race", "Race a scenario's fleet round its course in its wind, step by step from the board physics.") { file, seed, set, outDir, format, view, port, host, pace, fromBatch, raceNo, variant, noCache };
         cmd.SetAction(pr =>
         {
             var batch = pr.GetValue(fromBatch) is string dir
                 ? FromBatch.Load(pr.GetValue(file)!, dir, pr.GetValue(raceNo), pr.GetValue(variant), pr.GetValue(seed), pr.GetValue(set) ?? [])
                 : pr.GetValue(raceNo) is not null || pr.GetValue(variant) is not null ? throw new UsageException("--race and --variant go with --from-batch DIR") : null;
+            var rigs = TableCacheOption.Rigs(pr.GetValue(noCache), stderr);
             return pr.GetValue(view)
-                ? RunLive(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(host)!, pr.GetValue(port), pr.GetValue(pace), stdout, stderr, batch)
-                : Run(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(format)!, stdout, stderr, batch);
+                ? RunLive(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(host)!, pr.GetValue(port), pr.GetValue(pace), stdout, stderr, batch, rigs)
+                : Run(pr.GetValue(file)!, pr.GetValue(seed), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(format)!, stdout, stderr, batch, rigs);
         });
         return cmd;
     }
 
-    static int Run(string path, ulong? seed, string[] sets, string? outDir, string format, TextWriter stdout, TextWriter stderr, FromBatch? batch = null)
+    static int Run(string path, ulong? seed, string[] sets, string? outDir, string format, TextWriter stdout, TextWriter stderr, FromBatch? batch = null,
+        Equilibrium.RigCache? rigs = null)
     {
         var setup = batch?.Setup ?? ScenarioFile.LoadRace(path, sets, seed);
         var (name, dir) = NameAndFolder(setup, path, outDir);
         var clock = System.Diagnostics.Stopwatch.StartNew();
-        var race = new Race(setup);
+        rigs ??= new Equilibrium.RigCache();
+        var race = new Race(setup, rigs.For);
         double setupS = clock.Elapsed.TotalSeconds;
         var result = RunWithProgress(race, stdout, stderr, format == "json");
         double runS = clock.Elapsed.TotalSeconds - setupS;
+        rigs.Save(); // the rig tables this race built, for the next run (once the race is over, not in its timing)
         var written = Write(dir, race, result);
         if (format == "json")
         {
@@ -87,16 +92,18 @@ public static class RaceCommand
 
     /// <summary>The race, live in the viewer: paced to real time, streamed to the page, results written at the end.</summary>
     static int RunLive(string path, ulong? seed, string[] sets, string? outDir, string host, int port, double pace, TextWriter stdout, TextWriter stderr,
-        FromBatch? batch = null)
+        FromBatch? batch = null, Equilibrium.RigCache? rigs = null)
     {
         if (pace < 0 || !double.IsFinite(pace)) throw new UsageException($"--pace {pace}: give race seconds per real second (0 or more)");
         var setup = batch?.Setup ?? ScenarioFile.LoadRace(path, sets, seed);
         var (_, dir) = NameAndFolder(setup, path, outDir);
-        var race = new Race(setup);
+        rigs ??= new Equilibrium.RigCache();
+        var race = new Race(setup, rigs.For);
         var feed = new Viewer.LiveFeed(race);
         return ViewCommand.Serve(host, port, null, feed, stdout, stderr, cancel =>
         {
             feed.Run(pace, cancel);
+            rigs.Save();
             if (feed.Result is { } result)
             {
                 var written = Write(dir, race, result);

@@ -65,7 +65,10 @@ public sealed class BoardPhysics : IBoardModel
     // Fin constants: 0.5 rho A, the ventilation lift coefficient, the induced-drag factor 1/(pi e AR), 1/slope, the leeway cap.
     readonly double _finQ, _finMaxLift, _finInduced, _finInvSlope, _finLeewayCap;
 
-    public BoardPhysics(Equipment eq)
+    public BoardPhysics(Equipment eq) : this(eq, null) { }
+
+    /// <summary>The board model with the hull's resistance table read back from the disk cache (<see cref="RigTableStore"/>).</summary>
+    internal BoardPhysics(Equipment eq, Hull.HullState[]? hullTable)
     {
         Equipment = eq;
         Sail = new SailModel(eq.Sail);
@@ -77,7 +80,7 @@ public sealed class BoardPhysics : IBoardModel
         WaterViscosity = water.KinematicViscosity;
         Rider = new RiderModel(eq.Rider);
         MassKg = eq.TotalMassKg;
-        Hull = new HullModel(eq.Board, eq.TotalMassKg, WaterDensity, WaterViscosity, chopDragAreaM2: eq.Conditions.ChopDragAreaCm2 * 1e-4);
+        Hull = new HullModel(eq.Board, eq.TotalMassKg, WaterDensity, WaterViscosity, Air.Gravity, eq.Conditions.ChopDragAreaCm2 * 1e-4, hullTable);
         RigHeightM = DeckHeightM + Sail.CentreOfEffortM;
         BoomHeightM = Math.Min(RiderModel.BoomHeightM, Sail.CentreOfEffortM);
         _windage = (eq.Rider.DragAreaM2 + RigWindageM2) / Sail.AreaM2;

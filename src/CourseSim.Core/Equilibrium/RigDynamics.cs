@@ -47,7 +47,15 @@ public sealed class RigDynamics
     public RigDynamics(Equipment eq) : this(new BoardPhysics(eq)) { }
 
     /// <summary>Tables built from a board model: every force comes from <see cref="IBoardModel"/>, none is recomputed here.</summary>
-    public RigDynamics(BoardPhysics board)
+    public RigDynamics(BoardPhysics board) : this(board, null) { }
+
+    /// <summary>Tables read back from the disk cache (<see cref="RigTableStore"/>; shapes checked there): the trim table
+    /// as built, the rest worked out from the board model as usual.</summary>
+    internal static RigDynamics FromTables(BoardPhysics board, TrimTableData trim) => new(board, trim);
+
+    internal const int TrimCells = (BetaSteps + 1) * (FSteps + 1), TrimRows = BetaSteps + 1;
+
+    RigDynamics(BoardPhysics board, TrimTableData? trim)
     {
         Physics = board;
         MassKg = board.MassKg;
@@ -62,10 +70,23 @@ public sealed class RigDynamics
         _cells = new Cell[nb * nf];
         _alpha = new float[nb * nf];
         _fullSailSide = new double[nb];
-        BuildTrimTable(nb, nf);
+        if (trim is null) BuildTrimTable(nb, nf);
+        else
+        {
+            for (int j = 0; j < _cells.Length; j++) _cells[j] = new Cell { Drive = trim.Drive[j], Side = trim.Side[j], SailSide = trim.SailSide[j] };
+            trim.Alpha.CopyTo(_alpha, 0);
+            trim.FullSailSide.CopyTo(_fullSailSide, 0);
+        }
         _gradient = new double[(int)(GradientMax / GradientStep) + 2];
         for (int i = 0; i < _gradient.Length; i++) _gradient[i] = WindGradient.Factor(i * GradientStep, Physics.RigHeightM);
     }
+
+    /// <summary>A copy of the trim table for the disk cache.</summary>
+    internal TrimTableData ExportTrim() => new()
+    {
+        Drive = _cells.Select(c => c.Drive).ToArray(), Side = _cells.Select(c => c.Side).ToArray(),
+        SailSide = _cells.Select(c => c.SailSide).ToArray(), Alpha = (float[])_alpha.Clone(), FullSailSide = (double[])_fullSailSide.Clone(),
+    };
 
     /// <summary>The board model the tables come from.</summary>
     public IBoardModel Board => Physics;

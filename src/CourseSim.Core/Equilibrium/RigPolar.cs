@@ -179,4 +179,69 @@ public sealed class RigPolar
     public double BestTwa(double twsMs, bool upwind) => Lerp(upwind ? _upTwa : _downTwa, twsMs);
     /// <summary>Best VMG (m/s, positive) upwind or downwind.</summary>
     public double BestVmg(double twsMs, bool upwind) => Lerp(upwind ? _upVmg : _downVmg, twsMs);
+
+    // The disk cache (RigTableStore). A row w is a pure function of the set-up and w: BuildRow reads only its own wind,
+    // PlanRow(g) (a function of the set-up and g) and the drop-off memo, whose value for (angle, g) is the drop-off wind
+    // searched between the listed winds g-1 and g whichever row asked first. So a row read back from disk, with its plan
+    // rows and memo, leaves the polar in the very state building it would: same bits for every later read and build.
+    internal const int RowLength = TwaSteps + 1;
+    internal int RowCount => _nt;
+
+    /// <summary>The rows built (or loaded) so far, one bit per listed wind.</summary>
+    internal ulong ReadyRows
+    {
+        get
+        {
+            ulong m = 0;
+            for (int w = 0; w < _nt; w++) if (Volatile.Read(ref _ready[w])) m |= 1UL << w;
+            return m;
+        }
+    }
+
+    /// <summary>A copy of every row built so far, the plan rows and the drop-off memo (taken under the build lock).</summary>
+    internal RigTables ExportRows()
+    {
+        lock (_build)
+        {
+            var t = new RigTables();
+            for (int w = 0; w < _nt; w++)
+            {
+                if (_plan[w] is { } plan) t.Plan.Add(new PlanRowData { W = w, Plan = (bool[])plan.Clone() });
+                if (!_ready[w]) continue;
+                t.Rows.Add(new PolarRowData
+                {
+                    W = w, Speed = _speed.AsSpan(w * RowLength, RowLength).ToArray(), Get = _get.AsSpan(w * RowLength, RowLength).ToArray(),
+                    UpTwa = _upTwa[w], DownTwa = _downTwa[w], UpVmg = _upVmg[w], DownVmg = _downVmg[w], GetUpTwa = _getUpTwa[w], GetDownTwa = _getDownTwa[w],
+                });
+            }
+            var keys = _dropOffMemo.Keys.Order().ToArray();
+            t.DropOffKeys = keys;
+            t.DropOffWinds = keys.Select(k => _dropOffMemo[k]).ToArray();
+            return t;
+        }
+    }
+
+    /// <summary>Takes in rows read from disk (already checked for shape by the store); rows built already are kept.
+    /// Returns the rows taken, one bit per listed wind.</summary>
+    internal ulong ImportRows(RigTables t)
+    {
+        ulong taken = 0;
+        lock (_build)
+        {
+            foreach (var p in t.Plan) _plan[p.W] ??= (bool[])p.Plan.Clone();
+            for (int i = 0; i < t.DropOffKeys.Length; i++) _dropOffMemo.TryAdd(t.DropOffKeys[i], t.DropOffWinds[i]);
+            foreach (var r in t.Rows)
+            {
+                int w = r.W;
+                if (_ready[w]) continue;
+                r.Speed.CopyTo(_speed, w * RowLength);
+                r.Get.CopyTo(_get, w * RowLength);
+                _upTwa[w] = r.UpTwa; _downTwa[w] = r.DownTwa; _upVmg[w] = r.UpVmg; _downVmg[w] = r.DownVmg;
+                _getUpTwa[w] = r.GetUpTwa; _getDownTwa[w] = r.GetDownTwa;
+                Volatile.Write(ref _ready[w], true);
+                taken |= 1UL << w;
+            }
+        }
+        return taken;
+    }
 }

@@ -56,7 +56,7 @@ public static class BatchRunner
     /// that fails (a full disk) stops the batch with an <see cref="IOException"/> saying so; no temporary file is left.
     /// </remarks>
     public static IReadOnlyList<RaceRow> Run(ExperimentSpec spec, string outDir, int threads, bool resume, Action<BatchProgress>? progress = null,
-        CancellationToken cancel = default, Action<string>? warn = null, DurableFile.Opener? open = null)
+        CancellationToken cancel = default, Action<string>? warn = null, DurableFile.Opener? open = null, Equilibrium.RigCache? rigs = null)
     {
         if (resume) BatchManifest.CheckForResume(spec, outDir);
         var jobs = new List<(Variant V, int Race, int Index)>();
@@ -87,8 +87,8 @@ public static class BatchRunner
         int resumed = jobs.Count - todo.Count, done = resumed;
         progress?.Invoke(new BatchProgress(done, jobs.Count, resumed));
         var options = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads), CancellationToken = cancel };
-        // One cache of rig tables for the whole batch: a set-up's tables do not depend on the seed.
-        var rigs = new Equilibrium.RigCache();
+        // One cache of rig tables for the whole batch (the caller's, if given): a set-up's tables do not depend on the seed.
+        rigs ??= new Equilibrium.RigCache();
         try
         {
             Parallel.ForEach(todo, options, job =>

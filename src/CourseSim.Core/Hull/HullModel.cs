@@ -57,6 +57,17 @@ public sealed class HullModel
     public double ChopDragAreaM2 { get; }
 
     public HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity = 9.80665, double chopDragAreaM2 = 0)
+        : this(spec, totalMassKg, density, kinematicViscosity, gravity, chopDragAreaM2, null) { }
+
+    /// <summary>Length of the resistance table (the disk cache checks a table read back against it).</summary>
+    internal const int TableLength = (int)(TableMax / TableStep) + 1;
+
+    /// <summary>A copy of the resistance table (for the rig tables kept on disk between runs).</summary>
+    internal HullState[] ExportTable() => (HullState[])_table.Clone();
+
+    /// <summary>The hull with its resistance table given (as built before for this very hull, read back from the disk
+    /// cache), or built when <paramref name="table"/> is null.</summary>
+    internal HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity, double chopDragAreaM2, HullState[]? table)
     {
         Spec = spec;
         ChopDragAreaM2 = chopDragAreaM2;
@@ -67,9 +78,13 @@ public sealed class HullModel
         PlaningBeamM = PlaningBeamFraction * spec.WidthCm / 100.0;
         // Resting wetted area: bottom planform about 0.7 of length x width, plus the rails.
         RestingWettedAreaM2 = 0.7 * spec.LengthM * spec.WidthCm / 100.0 * 1.1;
-        int n = (int)(TableMax / TableStep) + 1;
-        _table = new HullState[n];
-        for (int i = 0; i < n; i++) _table[i] = Compute(i * TableStep);
+        int n = TableLength;
+        if (table is not null) _table = (HullState[])table.Clone();
+        else
+        {
+            _table = new HullState[n];
+            for (int i = 0; i < n; i++) _table[i] = Compute(i * TableStep);
+        }
         _fast = new float[2 * n];
         for (int i = 0; i < n; i++) { _fast[2 * i] = (float)_table[i].Resistance; _fast[2 * i + 1] = (float)_table[i].LiftFraction; }
     }

@@ -1,0 +1,200 @@
+using System.Globalization;
+using System.Reflection;
+using System.Runtime.InteropServices;
+using System.Security.Cryptography;
+using System.Text;
+using MessagePack;
+
+namespace CourseSim.Equilibrium;
+
+/// <summary>
+/// The rig tables kept on disk between runs (docs/engine.md, "Rig tables"): a set-up's polar rows, trim table and hull resistance table depend
+/// only on the set-up and the model code, never on the seed, so a second run reads them back instead of building them.
+/// One file per set-up, named by its key: the SHA-256 of the format version, the CourseSim.Core assembly's module
+/// version id (deterministic builds make it a hash of the code: any change to the model gives new keys), the runtime
+/// and CPU architecture, and the set-up's every field (doubles in round-trip form). The key is stored inside the file
+/// and checked, with a SHA-256 of the tables; a file that fails any check is ignored with one warning and the tables
+/// are built afresh. Writes go to a temporary file in the same folder, renamed over the old one, so a reader (another
+/// process too) sees the old file or the new, never half of one. Used through <see cref="RigCache"/>.
+/// </summary>
+public sealed class RigTableStore
+{
+    /// <summary>Bumped when the file's contracts change.</summary>
+    public const int FormatVersion = 1;
+    const string Extension = ".rigtables";
+
+    readonly Action<string> _warn;
+
+    /// <summary>The folder the files are in.</summary>
+    public string Folder { get; }
+
+    /// <param name="folder">the folder for the files (made when first saving)</param>
+    /// <param name="warn">where a warning line goes (a file ignored, a save that failed); default standard error</param>
+    public RigTableStore(string folder, Action<string>? warn = null)
+    {
+        Folder = folder;
+        _warn = warn ?? (m => Console.Error.WriteLine("warning: " + m));
+    }
+
+    /// <summary>The default folder: COURSESIM_CACHE_DIR if set, else $XDG_CACHE_HOME/coursesim, else ~/.cache/coursesim;
+    /// the tables in its rig-tables/ subfolder. Null if there is no home folder to put it in.</summary>
+    public static string? DefaultFolder()
+    {
+        string? root = System.Environment.GetEnvironmentVariable("COURSESIM_CACHE_DIR");
+        if (string.IsNullOrWhiteSpace(root))
+        {
+            string? xdg = System.Environment.GetEnvironmentVariable("XDG_CACHE_HOME");
+            string home = System.Environment.GetFolderPath(System.Environment.SpecialFolder.UserProfile);
+            if (!string.IsNullOrWhiteSpace(xdg) && Path.IsPathRooted(xdg)) root = Path.Combine(xdg, "coursesim");
+            else if (home.Length > 0) root = Path.Combine(home, ".cache", "coursesim");
+            else return null;
+        }
+        return Path.Combine(root, "rig-tables");
+    }
+
+    static readonly string CodeIdentity = "core " + typeof(RigPolar).Assembly.ManifestModule.ModuleVersionId.ToString("N") +
+        "\nruntime " + RuntimeInformation.FrameworkDescription + " " + RuntimeInformation.ProcessArchitecture + "\n";
+
+    /// <summary>The set-up's key (64 hex digits): the same set-up and model code give the same key in every process.</summary>
+    public static string KeyOf(Equipment eq) => Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(
+        $"coursesim rig tables {FormatVersion}\n{CodeIdentity}{StableText(eq)}")));
+
+    /// <summary>Every field of the set-up, one `path=value` line each in name order; doubles in round-trip form.</summary>
+    public static string StableText(Equipment eq)
+    {
+        var sb = new StringBuilder();
+        Append(sb, "", eq);
+        return sb.ToString();
+    }
+
+    static void Append(StringBuilder sb, string path, object o)
+    {
+        var props = o.GetType().GetProperties(BindingFlags.Public | BindingFlags.Instance)
+            .Where(p => p.SetMethod is not null && p.GetIndexParameters().Length == 0).OrderBy(p => p.Name, StringComparer.Ordinal);
+        foreach (var p in props)
+        {
+            string name = path + p.Name;
+            switch (p.GetValue(o))
+            {
+                case double d: sb.Append(name).Append('=').Append(d.ToString("R", CultureInfo.InvariantCulture)).Append('\n'); break;
+                case string s: sb.Append(name).Append('=').Append(s.Length).Append(':').Append(s).Append('\n'); break;
+                case int or long or bool or Enum: sb.Append(name).Append('=').Append(Convert.ToString(p.GetValue(o), CultureInfo.InvariantCulture)).Append('\n'); break;
+                case null: sb.Append(name).Append("=null\n"); break;
+                case var v when v.GetType().Namespace?.StartsWith("CourseSim", StringComparison.Ordinal) == true && v.GetType().IsClass:
+                    Append(sb, name + ".", v); break;
+                case var v:
+                    // A new kind of field must be written out here, or two set-ups differing in it would share a file.
+                    throw new NotSupportedException($"rig table key: {name} is a {v.GetType().Name}, which the key does not write out");
+            }
+        }
+    }
+
+    string PathFor(string key) => Path.Combine(Folder, key + Extension);
+
+    /// <summary>Loads what the file holds for this set-up into a new polar (the rest is built on use as ever).</summary>
+    internal (RigPolar Polar, ulong Rows, bool Tables) Load(Equipment eq)
+    {
+        string key = KeyOf(eq);
+        var t = TryRead(PathFor(key), key, true);
+        var physics = new BoardPhysics(eq, t?.Hull is { } h
+            ? h.Resistance.Select((r, i) => new Hull.HullState(r, h.LiftFraction[i], h.TrimDeg[i], h.WettedLengthM[i])).ToArray() : null);
+        var rig = t?.Trim is { } trim ? RigDynamics.FromTables(physics, trim) : new RigDynamics(physics);
+        var polar = new RigPolar(rig);
+        ulong rows = t is null ? 0 : polar.ImportRows(t);
+        return (polar, rows, t?.Trim is not null && t.Hull is not null);
+    }
+
+    /// <summary>Saves what the polar has built that the file lacks, merged with what the file holds now (another
+    /// process may have added rows since it was loaded). False if there was nothing new or the save failed (warned).</summary>
+    internal bool Save(RigPolar polar, ulong loadedRows, bool loadedTables)
+    {
+        if ((polar.ReadyRows & ~loadedRows) == 0 && loadedTables) return false;
+        var eq = polar.Rig.Equipment;
+        string key = KeyOf(eq), path = PathFor(key);
+        var mine = polar.ExportRows();
+        mine.Setup = StableText(eq);
+        mine.Trim = polar.Rig.ExportTrim();
+        var hull = polar.Rig.Hull.ExportTable();
+        mine.Hull = new HullTableData
+        {
+            Resistance = hull.Select(x => x.Resistance).ToArray(), LiftFraction = hull.Select(x => x.LiftFraction).ToArray(),
+            TrimDeg = hull.Select(x => x.TrimDeg).ToArray(), WettedLengthM = hull.Select(x => x.WettedLengthM).ToArray(),
+        };
+        if (TryRead(path, key, false) is { } disk)
+        {
+            var have = mine.Rows.Select(r => r.W).ToHashSet();
+            mine.Rows.AddRange(disk.Rows.Where(r => !have.Contains(r.W)));
+            mine.Rows.Sort((a, b) => a.W.CompareTo(b.W));
+            var havePlan = mine.Plan.Select(r => r.W).ToHashSet();
+            mine.Plan.AddRange(disk.Plan.Where(r => !havePlan.Contains(r.W)));
+            mine.Plan.Sort((a, b) => a.W.CompareTo(b.W));
+            var memo = new SortedDictionary<int, double>();
+            for (int i = 0; i < disk.DropOffKeys.Length; i++) memo[disk.DropOffKeys[i]] = disk.DropOffWinds[i];
+            for (int i = 0; i < mine.DropOffKeys.Length; i++) memo[mine.DropOffKeys[i]] = mine.DropOffWinds[i];
+            mine.DropOffKeys = memo.Keys.ToArray();
+            mine.DropOffWinds = memo.Values.ToArray();
+        }
+        byte[] payload = MessagePackSerializer.Serialize(mine);
+        byte[] bytes = MessagePackSerializer.Serialize(new RigTableFile { Format = FormatVersion, Key = key, Payload = payload, PayloadSha256 = SHA256.HashData(payload) });
+        string tmp = Path.Combine(Folder, $"{key}.{System.Environment.ProcessId}.{Guid.NewGuid():N}.tmp");
+        try
+        {
+            Directory.CreateDirectory(Folder);
+            using (var s = new FileStream(tmp, FileMode.CreateNew, FileAccess.Write, FileShare.None))
+            {
+                s.Write(bytes);
+                s.Flush(flushToDisk: true);
+            }
+            File.Move(tmp, path, overwrite: true);
+            return true;
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            try { File.Delete(tmp); } catch (Exception d) when (d is IOException or UnauthorizedAccessException) { /* nothing more to do */ }
+            _warn($"rig table cache: cannot save {path} ({e.Message}); the tables will be built again next time");
+            return false;
+        }
+    }
+
+    /// <summary>The file's tables if it exists and passes every check, else null (with a warning if asked).</summary>
+    RigTables? TryRead(string path, string key, bool warn)
+    {
+        if (!File.Exists(path)) return null;
+        string? problem;
+        RigTables? t = null;
+        try
+        {
+            var f = MessagePackSerializer.Deserialize<RigTableFile>(File.ReadAllBytes(path));
+            problem = f.Format != FormatVersion ? $"format {f.Format}, expected {FormatVersion}"
+                : f.Key != key ? "saved under another key"
+                : !SHA256.HashData(f.Payload).AsSpan().SequenceEqual(f.PayloadSha256) ? "checksum mismatch (damaged)"
+                : Check(t = MessagePackSerializer.Deserialize<RigTables>(f.Payload));
+        }
+        catch (Exception e) when (e is not OutOfMemoryException) // whatever a damaged file throws: ignore it, never crash
+        {
+            problem = $"cannot be read ({e.Message})";
+        }
+        if (problem is null) return t;
+        if (warn) _warn($"rig table cache: ignoring {path}: {problem}; building the tables again");
+        return null;
+    }
+
+    /// <summary>Null if every table has the shape the polar and rig expect, else what is wrong.</summary>
+    static string? Check(RigTables t)
+    {
+        int nt = (int)(RigPolar.TwsMaxKn / RigPolar.TwsStepKn) + 1, n = RigPolar.RowLength;
+        foreach (var r in t.Rows)
+            if (r is null || r.W < 0 || r.W >= nt || r.Speed?.Length != n || r.Get?.Length != n) return "a polar row of the wrong shape";
+        if (t.Rows.Select(r => r.W).Distinct().Count() != t.Rows.Count) return "a polar row twice";
+        foreach (var p in t.Plan)
+            if (p is null || p.W < 0 || p.W >= nt || p.Plan?.Length != n) return "a plan row of the wrong shape";
+        if (t.DropOffKeys is null || t.DropOffWinds is null || t.DropOffKeys.Length != t.DropOffWinds.Length) return "drop-off memo of the wrong shape";
+        if (t.Trim is { } tr && (tr.Drive?.Length != RigDynamics.TrimCells || tr.Side?.Length != RigDynamics.TrimCells
+                || tr.SailSide?.Length != RigDynamics.TrimCells || tr.Alpha?.Length != RigDynamics.TrimCells || tr.FullSailSide?.Length != RigDynamics.TrimRows))
+            return "a trim table of the wrong shape";
+        int nh = CourseSim.Hull.HullModel.TableLength;
+        if (t.Hull is { } hu && (hu.Resistance?.Length != nh || hu.LiftFraction?.Length != nh || hu.TrimDeg?.Length != nh || hu.WettedLengthM?.Length != nh))
+            return "a hull table of the wrong shape";
+        return null;
+    }
+}
