@@ -1,4 +1,3 @@
-using System.Runtime.CompilerServices;
 using CourseSim.Equilibrium;
 using CourseSim.Units;
 
@@ -114,9 +113,9 @@ public sealed class StartRun
         return _v[k];
     }
 
-    // Curves per rig tables: a weak table (dropped with the rig) of lazily built curves by (whole knots, 5 deg, pumping).
+    // Curves per rig tables, kept with the polar (RigPolar.Derived: dropped with it, no process-wide table), lazily
+    // built by (whole knots, 5 deg, pumping).
     sealed class Table { public readonly StartRun?[] Runs = new StartRun?[2 * 41 * 37]; }
-    static readonly ConditionalWeakTable<RigPolar, Table> Tables = new();
 
     /// <summary>The curve for this rig at the wind speed (m/s) and true wind angle (rad) rounded to the table's steps.</summary>
     public static StartRun For(RigPolar polar, double twsMs, double twaRad, bool pumping)
@@ -124,7 +123,7 @@ public sealed class StartRun
         int w = (int)Math.Clamp(Math.Round(Unit.MsToKnots(twsMs)), 1, 40);
         int a = (int)Math.Clamp(Math.Round(Unit.RadToDeg(Math.Abs(Unit.WrapRadPi(twaRad))) / 5), 0, 36);
         int i = ((pumping ? 1 : 0) * 41 + w) * 37 + a;
-        var t = Tables.GetValue(polar, _ => new Table());
+        var t = polar.Derived(static _ => new Table());
         var run = Volatile.Read(ref t.Runs[i]);
         if (run is not null) return run;
         run = Build(polar, Unit.KnotsToMs(w), Unit.DegToRad(Math.Max(a * 5, 25)), pumping);

@@ -26,6 +26,16 @@ public sealed class RigPolar
     readonly bool[] _ready;            // per listed wind: the row of the tables is built
     readonly Dictionary<int, double> _dropOffMemo = new();
     readonly object _build = new();
+    // Tables other layers derive from this polar alone (the start's run-up curves), kept with it and dropped with it:
+    // no process-wide table keyed by polar.
+    readonly System.Collections.Concurrent.ConcurrentDictionary<Type, object> _derived = new();
+
+    /// <summary>
+    /// A table of type <typeparamref name="T"/> derived from this polar alone, made on first use by
+    /// <paramref name="make"/> and kept with the polar (shared by every race that shares the polar: it must be
+    /// thread-safe and its contents must depend on nothing but the polar).
+    /// </summary>
+    public T Derived<T>(Func<RigPolar, T> make) where T : class => (T)_derived.GetOrAdd(typeof(T), static (_, arg) => arg.make(arg.self), (make, self: this));
 
     /// <summary>Builds the rig tables of a set-up; the polar's rows are built on first use, one wind speed at a time
     /// (a race reads the few winds it meets). Share them through a <see cref="RigCache"/>.</summary>

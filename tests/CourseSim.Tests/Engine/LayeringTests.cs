@@ -66,4 +66,35 @@ public class LayeringTests
             Assert.True(lines <= 420, $"{Path.GetRelativePath(RepoRoot.Path, file)} has {lines} lines: split it (DEVELOPERS.md)");
         }
     }
+
+    /// <summary>
+    /// Nothing in the engine library is process-wide mutable state (issue 17): no static field that can be assigned
+    /// after start-up, and no static collection or cache (two batches in one process must not share hidden tables).
+    /// Static readonly scalars, strings, delegates and constant lookup arrays are allowed; compiler-made fields are skipped.
+    /// </summary>
+    [Fact]
+    public void TheEngineLibraryKeepsNoProcessWideMutableState()
+    {
+        var asm = typeof(CourseSim.Engine.RaceContext).Assembly;
+        var bad = new List<string>();
+        const System.Reflection.BindingFlags all = System.Reflection.BindingFlags.Static | System.Reflection.BindingFlags.Public
+            | System.Reflection.BindingFlags.NonPublic | System.Reflection.BindingFlags.DeclaredOnly;
+        foreach (var t in asm.GetTypes())
+        {
+            if (t.Name.Contains('<')) continue; // compiler-made (lambdas' caches, state machines)
+            foreach (var f in t.GetFields(all))
+            {
+                if (f.IsLiteral || f.Name.Contains('<')) continue;
+                // Allowed: the entity store's numbering of component types (a per-type index, as the runtime numbers
+                // types; it holds no world or race state, and each world maps it to its own ids).
+                if (t.FullName == "CourseSim.Entities.World+TypeIndex" && f.Name == "_next") continue;
+                var ft = f.FieldType;
+                bool collection = ft.IsGenericType && ft.Namespace is "System.Collections.Generic" or "System.Collections.Concurrent"
+                                  || ft.IsGenericType && ft.GetGenericTypeDefinition() == typeof(System.Runtime.CompilerServices.ConditionalWeakTable<,>);
+                if (!f.IsInitOnly) bad.Add($"{t.FullName}.{f.Name} (assignable)");
+                else if (collection) bad.Add($"{t.FullName}.{f.Name} ({ft.Name})");
+            }
+        }
+        Assert.True(bad.Count == 0, "process-wide mutable state: " + string.Join("; ", bad));
+    }
 }
