@@ -31,7 +31,9 @@ public sealed class NeighbourGrid
     /// <summary>Each board's distance to its nearest live neighbour, m (+infinity when none within range).</summary>
     public readonly double[] NearestM;
     int[] _adjStart, _adjLen, _adj, _rank;
-    double[] _adjD;
+    // Each row entry's key for picking the nearest: the distance in single precision (its bits order as the values
+    // do, distances being positive) above the neighbour's canonical rank (unique keys; ties go by rank).
+    ulong[] _adjK;
     // Scratch for picking the nearest of a long row.
     ulong[] _pick = new ulong[64];
 
@@ -47,7 +49,7 @@ public sealed class NeighbourGrid
         // Room up front for a bunched start (the 40-board demo's countdown grew these to about 25 pairs a board), so
         // the step does not grow them; they still grow, once, for a denser fleet.
         Near = new(32 * Math.Max(1, boards)); Close = new(4 * Math.Max(1, boards));
-        _adj = new int[Math.Max(64, 64 * boards)]; _adjD = new double[_adj.Length];
+        _adj = new int[Math.Max(64, 64 * boards)]; _adjK = new ulong[_adj.Length];
     }
 
     /// <summary>The neighbours of board b within range: all of them, or the nearest <see cref="MaxNeighbours"/> (in the order the pairs were found, rank order).</summary>
@@ -95,13 +97,14 @@ public sealed class NeighbourGrid
         var near = System.Runtime.InteropServices.CollectionsMarshal.AsSpan(Near);
         foreach (var (a, c, _) in near) { _adjStart[a + 1]++; _adjStart[c + 1]++; }
         for (int b = 0; b < _n; b++) _adjStart[b + 1] += _adjStart[b];
-        if (_adj.Length < 2 * near.Length) { _adj = new int[Math.Max(64, 4 * near.Length)]; _adjD = new double[_adj.Length]; }
+        if (_adj.Length < 2 * near.Length) { _adj = new int[Math.Max(64, 4 * near.Length)]; _adjK = new ulong[_adj.Length]; }
         Array.Copy(_adjStart, _fill, _n);
         for (int p = 0; p < near.Length; p++)
         {
             var (a, c, d) = near[p];
-            _adjD[_fill[a]] = d; _adj[_fill[a]++] = c;
-            _adjD[_fill[c]] = d; _adj[_fill[c]++] = a;
+            ulong dk = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32;
+            _adjK[_fill[a]] = dk | (uint)_rank[c]; _adj[_fill[a]++] = c;
+            _adjK[_fill[c]] = dk | (uint)_rank[a]; _adj[_fill[c]++] = a;
         }
         for (int b = 0; b < _n; b++) _adjLen[b] = Keep(_adjStart[b], _adjStart[b + 1] - _adjStart[b]);
     }
@@ -116,18 +119,16 @@ public sealed class NeighbourGrid
     {
         if (len <= MaxNeighbours) return len;
         if (_pick.Length < len) _pick = new ulong[2 * len];
-        for (int i = 0; i < len; i++) _pick[i] = Key(_adjD[start + i], _adj[start + i]);
+        Array.Copy(_adjK, start, _pick, 0, len);
         ulong cut = NthSmallest(_pick, len, MaxNeighbours - 1);
         int w = start;
-        for (int i = 0; i < len; i++)
+        for (int i = start; i < start + len; i++)
         {
-            if (Key(_adjD[start + i], _adj[start + i]) > cut) continue;
-            _adjD[w] = _adjD[start + i]; _adj[w++] = _adj[start + i];
+            if (_adjK[i] > cut) continue;
+            _adjK[w] = _adjK[i]; _adj[w++] = _adj[i];
         }
         return w - start;
     }
-
-    ulong Key(double d, int board) => (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32 | (uint)_rank[board];
 
     /// <summary>The k-th smallest (0-based) of the first n keys (Hoare's selection, middle pivot; reorders them): O(n) on average.</summary>
     static ulong NthSmallest(ulong[] a, int n, int k)
@@ -153,6 +154,6 @@ public sealed class NeighbourGrid
     {
         Near.Clear(); Near.AddRange(o.Near); Close.Clear(); Close.AddRange(o.Close);
         Array.Copy(o.NearestM, NearestM, _n);
-        _adjStart = (int[])o._adjStart.Clone(); _adjLen = (int[])o._adjLen.Clone(); _adj = (int[])o._adj.Clone(); _adjD = (double[])o._adjD.Clone();
+        _adjStart = (int[])o._adjStart.Clone(); _adjLen = (int[])o._adjLen.Clone(); _adj = (int[])o._adj.Clone(); _adjK = (ulong[])o._adjK.Clone();
     }
 }
