@@ -105,8 +105,8 @@ public static class PolarCharts
         plt.Axes.SquareUnits();
         plt.Axes.Frameless();
         plt.HideGrid();
-        plt.ShowLegend(Alignment.UpperRight);
-        plt.SavePng(path, 950, 1050);
+        plt.ShowLegend(Edge.Right);
+        plt.SavePng(path, 1150, 1050);
     }
 
     /// <summary>A one-line description of a set-up for chart titles: rider mass, sail, board.</summary>
