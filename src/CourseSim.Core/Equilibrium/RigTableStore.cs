@@ -29,11 +29,12 @@ public sealed class RigTableStore
     public string Folder { get; }
 
     /// <param name="folder">the folder for the files (made when first saving)</param>
-    /// <param name="warn">where a warning line goes (a file ignored, a save that failed); default standard error</param>
-    public RigTableStore(string folder, Action<string>? warn = null)
+    /// <param name="warn">where a warning line goes (a file ignored, a save that failed): the caller's (the CLI prints
+    /// it on standard error; nothing in the engine library writes to the console)</param>
+    public RigTableStore(string folder, Action<string> warn)
     {
         Folder = folder;
-        _warn = warn ?? (m => Console.Error.WriteLine("warning: " + m));
+        _warn = warn ?? throw new ArgumentNullException(nameof(warn));
     }
 
     /// <summary>The default folder: COURSESIM_CACHE_DIR if set, else $XDG_CACHE_HOME/coursesim, else ~/.cache/coursesim;

@@ -97,4 +97,15 @@ public class LayeringTests
         }
         Assert.True(bad.Count == 0, "process-wide mutable state: " + string.Join("; ", bad));
     }
+
+    /// <summary>Nothing in the engine library writes to the console (DEVELOPERS.md, "Layout"): warnings go to a callback the caller gives.</summary>
+    [Fact]
+    public void TheEngineLibraryNeverWritesToTheConsole()
+    {
+        var offenders = Directory.EnumerateFiles(Core, "*.cs", SearchOption.AllDirectories)
+            .Where(f => !f.Contains($"{Path.DirectorySeparatorChar}obj{Path.DirectorySeparatorChar}") && !f.Contains($"{Path.DirectorySeparatorChar}bin{Path.DirectorySeparatorChar}"))
+            .Where(f => Regex.IsMatch(File.ReadAllText(f), @"\bConsole\."))
+            .Select(f => Path.GetRelativePath(RepoRoot.Path, f)).ToList();
+        Assert.True(offenders.Count == 0, "writes to the console: " + string.Join(", ", offenders));
+    }
 }
