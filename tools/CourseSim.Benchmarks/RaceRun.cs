@@ -20,6 +20,8 @@ public sealed class RaceRun
     public long RecorderStartBytes { get; init; }
     public long RecorderEndBytes { get; init; }
     public double EstimatedS { get; init; }
+    /// <summary>The rules' work counted over the whole run (<see cref="WorkCounts"/>).</summary>
+    public WorkCounts Work { get; init; } = new();
 
     public double NsPerBoardStep(int p) => BoardSteps[p] == 0 ? double.NaN : CpuS[p] * 1e9 / BoardSteps[p];
     public double BytesPerBoardStep(int p) => BoardSteps[p] == 0 ? double.NaN : Bytes[p] / (double)BoardSteps[p];
@@ -61,6 +63,7 @@ public sealed class RaceRun
             Phases = names, CpuS = cpu, BoardSteps = bs, Steps = steps, Bytes = bytes, BuildS = build, EndTimeS = race.Time,
             Finished = race.IsOver, Hash = hash ? race.StateHash() : "", Events = events,
             RecorderStartBytes = recStart, RecorderEndBytes = race.Recorder.MemoryBytes, EstimatedS = race.EstimatedDurationS,
+            Work = race.Context.Work,
         };
     }
 }

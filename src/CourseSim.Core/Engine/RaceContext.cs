@@ -22,6 +22,8 @@ public sealed class RaceContext
     public WindShadow Shadow { get; }
     public StepSnapshot Snapshot { get; }
     public NeighbourGrid Grid { get; }
+    /// <summary>Counts of the rules' costliest calls (for the benchmark; no system reads them).</summary>
+    public WorkCounts Work { get; } = new();
     public RaceLog Log { get; internal set; }
     public CommandBuffer Commands { get; } = new();
     public Recorder Recorder { get; internal set; }

@@ -216,6 +216,7 @@ public static class Judge
         /// <summary>The hull gap to board b (<see cref="PredictedHullGap"/>).</summary>
         public double Gap(RaceContext c, int b, double below = double.PositiveInfinity, double horizonS = 6)
         {
+            c.Work.HullGapProbes++;
             var s = c.Snapshot;
             double lb = c.Fleet.LengthM[b], accB = c.LookoutAccel[b];
             double sb = s.TrackSin[b], cb = s.TrackCos[b];

@@ -108,6 +108,7 @@ public sealed class Lookout : RaceSystem
         {
             long key = RaceContext.PairKey(k, j);
             var (t, d, closing) = Judge.CpaAndClosing(s, k, sinH, cosH, v, j);
+            c.Work.NeighbourChecks++;
             // Faster closing, wider berth (the same rule of thumb as the passing gap).
             double m = margin + ConflictPerMs * closing;
             if (d >= m || t >= LookaheadS)
@@ -236,6 +237,7 @@ public sealed class Lookout : RaceSystem
     /// </summary>
     (double H, double P) Choose(RaceContext c, int k, in GiveWay gw, double baseH, double va, int side, bool turning, double from, double cur)
     {
+        c.Work.GiveWaySearches++;
         var s = c.Snapshot;
         double bestScore = double.PositiveInfinity, bestH = baseH, bestP = 1;
         Span<double> offsets = stackalloc double[19];
