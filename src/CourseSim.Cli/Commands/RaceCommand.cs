@@ -44,13 +44,12 @@ public static class RaceCommand
         return cmd;
     }
 
-    static int Run(string path, ulong? seed, string[] sets, string? outDir, string format, TextWriter stdout, TextWriter stderr, FromBatch? batch = null,
-        Equilibrium.RigCache? rigs = null)
+    static int Run(string path, ulong? seed, string[] sets, string? outDir, string format, TextWriter stdout, TextWriter stderr, FromBatch? batch,
+        Equilibrium.RigCache rigs)
     {
         var setup = batch?.Setup ?? ScenarioFile.LoadRace(path, sets, seed);
         var (name, dir) = NameAndFolder(setup, path, outDir);
         var clock = System.Diagnostics.Stopwatch.StartNew();
-        rigs ??= new Equilibrium.RigCache();
         var race = new Race(setup, rigs.For);
         double setupS = clock.Elapsed.TotalSeconds;
         var result = RunWithProgress(race, stdout, stderr, format == "json");
@@ -92,12 +91,11 @@ public static class RaceCommand
 
     /// <summary>The race, live in the viewer: paced to real time, streamed to the page, results written at the end.</summary>
     static int RunLive(string path, ulong? seed, string[] sets, string? outDir, string host, int port, double pace, TextWriter stdout, TextWriter stderr,
-        FromBatch? batch = null, Equilibrium.RigCache? rigs = null)
+        FromBatch? batch, Equilibrium.RigCache rigs)
     {
         if (pace < 0 || !double.IsFinite(pace)) throw new UsageException($"--pace {pace}: give race seconds per real second (0 or more)");
         var setup = batch?.Setup ?? ScenarioFile.LoadRace(path, sets, seed);
         var (_, dir) = NameAndFolder(setup, path, outDir);
-        rigs ??= new Equilibrium.RigCache();
         var race = new Race(setup, rigs.For);
         var feed = new Viewer.LiveFeed(race);
         return ViewCommand.Serve(host, port, null, feed, stdout, stderr, cancel =>

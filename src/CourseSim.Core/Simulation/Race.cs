@@ -82,11 +82,11 @@ public sealed class Race
         ]);
         _c.Snapshot.Capture(_c.All, Time);
         // Room for the whole race's samples up front (no growing in the step): the estimated duration with a margin.
-        _c.Recorder = new Recorder(fleet.Count, Settings.RecordIntervalS, Time,
-            (int)Math.Min(1 << 20, (Settings.CountdownS + Math.Min(Settings.TimeLimitS, 2.5 * EstimatedDurationS + 300)) / Settings.RecordIntervalS) + 2);
+        double roomS = Settings.CountdownS + Math.Min(Settings.TimeLimitS, 2.5 * EstimatedDurationS + 300);
+        _c.Recorder = new Recorder(fleet.Count, Settings.RecordIntervalS, Time, (int)Math.Min(1 << 20, roomS / Settings.RecordIntervalS) + 2);
         // The same for the events: the 40-board demo logs about 0.08 a board a second (3,100 events and incidents in its
         // 958 s, countdown included); over the recorder's margin that is room for 168 a board there, against 78 logged.
-        _c.Log.Reserve((int)Math.Min(1 << 24, fleet.Count * (32 + EventsPerBoardS * (Settings.CountdownS + Math.Min(Settings.TimeLimitS, 2.5 * EstimatedDurationS + 300)))));
+        _c.Log.Reserve((int)Math.Min(1 << 24, fleet.Count * (32 + EventsPerBoardS * roomS)));
     }
 
     /// <summary>Events a board is given room for per second of the race's length (model value: the 40-board demo's rate).</summary>
