@@ -38,6 +38,16 @@ public sealed class HullTableData
     [Key(1)] public double[] LiftFraction { get; set; } = [];
     [Key(2)] public double[] TrimDeg { get; set; } = [];
     [Key(3)] public double[] WettedLengthM { get; set; } = [];
+
+    /// <summary>The table as the hull holds it, for saving.</summary>
+    public static HullTableData Of(IReadOnlyList<Hull.HullState> t) => new()
+    {
+        Resistance = t.Select(x => x.Resistance).ToArray(), LiftFraction = t.Select(x => x.LiftFraction).ToArray(),
+        TrimDeg = t.Select(x => x.TrimDeg).ToArray(), WettedLengthM = t.Select(x => x.WettedLengthM).ToArray(),
+    };
+
+    /// <summary>The table back as the hull holds it (shapes checked by the store).</summary>
+    public Hull.HullState[] ToStates() => Resistance.Select((r, i) => new Hull.HullState(r, LiftFraction[i], TrimDeg[i], WettedLengthM[i])).ToArray();
 }
 
 /// <summary>One built row of <see cref="RigPolar"/> (one listed wind speed).</summary>

@@ -97,8 +97,7 @@ public sealed class RigTableStore
     {
         string key = KeyOf(eq);
         var t = TryRead(PathFor(key), key, true);
-        var physics = new BoardPhysics(eq, t?.Hull is { } h
-            ? h.Resistance.Select((r, i) => new Hull.HullState(r, h.LiftFraction[i], h.TrimDeg[i], h.WettedLengthM[i])).ToArray() : null);
+        var physics = new BoardPhysics(eq, t?.Hull?.ToStates());
         var rig = t?.Trim is { } trim ? RigDynamics.FromTables(physics, trim) : new RigDynamics(physics);
         var polar = new RigPolar(rig);
         ulong rows = t is null ? 0 : polar.ImportRows(t);
@@ -115,12 +114,7 @@ public sealed class RigTableStore
         var mine = polar.ExportRows();
         mine.Setup = StableText(eq);
         mine.Trim = polar.Rig.ExportTrim();
-        var hull = polar.Rig.Hull.ExportTable();
-        mine.Hull = new HullTableData
-        {
-            Resistance = hull.Select(x => x.Resistance).ToArray(), LiftFraction = hull.Select(x => x.LiftFraction).ToArray(),
-            TrimDeg = hull.Select(x => x.TrimDeg).ToArray(), WettedLengthM = hull.Select(x => x.WettedLengthM).ToArray(),
-        };
+        mine.Hull = HullTableData.Of(polar.Rig.Hull.Table);
         if (TryRead(path, key, false) is { } disk)
         {
             var have = mine.Rows.Select(r => r.W).ToHashSet();

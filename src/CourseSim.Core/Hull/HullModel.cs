@@ -62,8 +62,8 @@ public sealed class HullModel
     /// <summary>Length of the resistance table (the disk cache checks a table read back against it).</summary>
     internal const int TableLength = (int)(TableMax / TableStep) + 1;
 
-    /// <summary>A copy of the resistance table (for the rig tables kept on disk between runs).</summary>
-    internal HullState[] ExportTable() => (HullState[])_table.Clone();
+    /// <summary>The resistance table, read-only (for the rig tables kept on disk between runs).</summary>
+    internal IReadOnlyList<HullState> Table => _table;
 
     /// <summary>The hull with its resistance table given (as built before for this very hull, read back from the disk
     /// cache), or built when <paramref name="table"/> is null.</summary>
