@@ -14,9 +14,12 @@ public class NeighbourGridTests
         return s;
     }
 
+    static double Dist(IReadOnlyList<(double X, double Y)> at, int a, int b) =>
+        Math.Sqrt((at[a].X - at[b].X) * (at[a].X - at[b].X) + (at[a].Y - at[b].Y) * (at[a].Y - at[b].Y));
+
     static HashSet<int> BruteNearest(IReadOnlyList<(double X, double Y)> at, int[] rank, int b, double range, int k) =>
         Enumerable.Range(0, at.Count).Where(j => j != b)
-            .Select(j => (j, d: Math.Sqrt((at[j].X - at[b].X) * (at[j].X - at[b].X) + (at[j].Y - at[b].Y) * (at[j].Y - at[b].Y))))
+            .Select(j => (j, d: Dist(at, j, b)))
             .Where(p => p.d <= range).OrderBy(p => p.d).ThenBy(p => rank[p.j]).Take(k).Select(p => p.j).ToHashSet();
 
     [Fact]
@@ -39,7 +42,7 @@ public class NeighbourGridTests
                 Assert.Equal(got.Length, got.Distinct().Count());
                 Assert.True(want.SetEquals(got), $"spacing {spacing}, board {b}: got {string.Join(",", got.Order())}, want {string.Join(",", want.Order())}");
                 // The nearest neighbour distance is every board's within range, not only the kept ones'.
-                double nearest = Enumerable.Range(0, at.Count).Where(j => j != b).Min(j => Math.Sqrt((at[j].X - at[b].X) * (at[j].X - at[b].X) + (at[j].Y - at[b].Y) * (at[j].Y - at[b].Y)));
+                double nearest = Enumerable.Range(0, at.Count).Where(j => j != b).Min(j => Dist(at, j, b));
                 Assert.Equal(nearest, grid.NearestM[b], 9);
             }
             if (spacing == 3.0) Assert.Equal(NeighbourGrid.MaxNeighbours, grid.Neighbours(60).Length);
