@@ -43,6 +43,12 @@ public static class Program
             race.Timings = t;
             race.Run();
             Console.WriteLine($"  race {i + 1}: {Machine.ThreadCpuS() - t0:F3} s CPU, ends at {race.Time:F1} s");
+            if (i == 0)
+            {
+                var w = race.Context.Work;
+                Console.WriteLine($"    work (counts, the same every race): threat checks {w.NeighbourChecks}, give-way searches {w.GiveWaySearches}, " +
+                                  $"candidates vetted {w.CandidatesVetted}, hull-gap predictions {w.HullGapProbes}, grid pairs {w.GridPairs}");
+            }
             if (t is not null)
                 Console.WriteLine("    wall ns per board-step (40 boards x steps): " + string.Join(", ", Enumerable.Range(0, t.Names.Length).Select(k => $"{t.Names[k]} {t.NsPerBoardStep(k, 40):F1}")));
         }

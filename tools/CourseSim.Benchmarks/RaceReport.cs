@@ -155,6 +155,7 @@ public static class RaceReport
         Console.WriteLine($"  the rules' work per board-step, counted (does not swing with the machine's load): {"40",6} {big,8} {"ratio",7}");
         foreach (var (name, f) in new (string, Func<WorkCounts, long>)[] {
                      ("neighbours checked in threat scans", w => w.NeighbourChecks), ("give-way searches", w => w.GiveWaySearches),
+                     ("candidate courses vetted in them", w => w.CandidatesVetted),
                      ("hull-gap predictions", w => w.HullGapProbes), ("grid pairs listed", w => w.GridPairs) })
         {
             double a = Per(f(first.Work), first), b = Per(f(bigRun.Work), bigRun);

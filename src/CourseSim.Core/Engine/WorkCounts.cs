@@ -11,6 +11,8 @@ public sealed class WorkCounts
     public long NeighbourChecks;
     /// <summary>Give-way searches (the candidate courses of a rider who must keep clear).</summary>
     public long GiveWaySearches;
+    /// <summary>Candidate courses vetted in give-way searches (each checked against the threats or every neighbour).</summary>
+    public long CandidatesVetted;
     /// <summary>Hull-gap predictions asked for (the search's costliest call).</summary>
     public long HullGapProbes;
     /// <summary>Pairs within the lookout range listed by the neighbour grid's rebuilds.</summary>

@@ -287,6 +287,7 @@ public sealed class Lookout : RaceSystem
                     probed[oi] = true;
                 }
                 var probe = probes[oi].WithSpeed(v);
+                c.Work.CandidatesVetted++;
                 double worst = double.PositiveInfinity, sinH = probe.SinH, cosH = probe.CosH;
                 foreach (int j in other ? neighbours : System.Runtime.InteropServices.CollectionsMarshal.AsSpan(_threats))
                 {
