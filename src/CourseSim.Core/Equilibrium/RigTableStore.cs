@@ -15,13 +15,23 @@ namespace CourseSim.Equilibrium;
 /// and CPU architecture, and the set-up's every field (doubles in round-trip form). The key is stored inside the file
 /// and checked, with a SHA-256 of the tables; a file that fails any check is ignored with one warning and the tables
 /// are built afresh. Writes go to a temporary file in the same folder, renamed over the old one, so a reader (another
-/// process too) sees the old file or the new, never half of one. Used through <see cref="RigCache"/>.
+/// process too) sees the old file or the new, never half of one. Savers take turns: each holds the folder's lock file
+/// (an exclusive lock the operating system drops if the process dies) while it reads what is on disk, merges its own rows
+/// in and renames, so no saver's rows are lost to another's (<see cref="LockWaitMs"/>). Used through <see cref="RigCache"/>.
 /// </summary>
 public sealed class RigTableStore
 {
     /// <summary>Bumped when the file's contracts change.</summary>
     public const int FormatVersion = 1;
     const string Extension = ".rigtables";
+    /// <summary>The lock file savers take turns on (in the tables' folder).</summary>
+    public const string LockName = "save.lock";
+    /// <summary>
+    /// Longest a saver waits for another's turn, ms (a save is a read, a merge and a write of well under a megabyte: tens
+    /// of milliseconds). Past it the save goes ahead unlocked, merged with what the file held when read, as without the
+    /// lock: the file stays whole, but rows another saver adds meanwhile can be lost (built again when next needed).
+    /// </summary>
+    public const int LockWaitMs = 10_000;
 
     readonly Action<string> _warn;
 
@@ -109,6 +119,7 @@ public sealed class RigTableStore
     internal bool Save(RigPolar polar, ulong loadedRows, bool loadedTables)
     {
         if ((polar.ReadyRows & ~loadedRows) == 0 && loadedTables) return false;
+        using var turn = TakeTurn();
         var eq = polar.Rig.Equipment;
         string key = KeyOf(eq), path = PathFor(key);
         var mine = polar.ExportRows();
@@ -148,6 +159,38 @@ public sealed class RigTableStore
             try { File.Delete(tmp); } catch (Exception d) when (d is IOException or UnauthorizedAccessException) { /* nothing more to do */ }
             _warn($"rig table cache: cannot save {path} ({e.Message}); the tables will be built again next time");
             return false;
+        }
+    }
+
+    /// <summary>
+    /// This saver's turn: the lock file held exclusively (FileShare.None: an advisory lock on Unix, honoured by every
+    /// CourseSim process and by other handles in this one), retried until <see cref="LockWaitMs"/>. Null (save unlocked)
+    /// if the folder cannot be made or the wait runs out; a warning says so only in the second case.
+    /// </summary>
+    FileStream? TakeTurn()
+    {
+        string path = Path.Combine(Folder, LockName);
+        var waited = System.Diagnostics.Stopwatch.StartNew();
+        for (int attempt = 0; ; attempt++)
+        {
+            try
+            {
+                Directory.CreateDirectory(Folder);
+                return new FileStream(path, FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None);
+            }
+            catch (IOException) when (waited.ElapsedMilliseconds < LockWaitMs)
+            {
+                Thread.Sleep(Math.Min(50, 2 + attempt)); // another saver's turn
+            }
+            catch (IOException e)
+            {
+                _warn($"rig table cache: waited {LockWaitMs / 1000} s for {path} ({e.Message}); saving without it");
+                return null;
+            }
+            catch (UnauthorizedAccessException)
+            {
+                return null; // the save itself will warn that the folder cannot be written
+            }
         }
     }
 

@@ -95,7 +95,7 @@ public class RigTableStoreTests
         var r1 = new Race(EngineTestKit.Demo(), cold.For);
         r1.Run();
         Assert.Equal(cold.Count, cold.Save()); // every set-up of the fleet written
-        Assert.Equal(cold.Count, Directory.GetFiles(dir).Length);
+        Assert.Equal(cold.Count, Directory.GetFiles(dir, "*.rigtables").Length);
 
         var warm = new RigCache(new RigTableStore(dir, warnings.Add));
         var r2 = new Race(EngineTestKit.Demo(), warm.For);
@@ -185,6 +185,7 @@ public class RigTableStoreTests
         for (double kn = 5; kn <= 8; kn++) pa.Speed(Unit.KnotsToMs(kn), 1.1);
         for (double kn = 15; kn <= 18; kn++) pb.Speed(Unit.KnotsToMs(kn), 1.1);
         // Many caches at once, each loading the file, building rows of its own and saving them merged; readers meanwhile.
+        long saved = 0;
         Parallel.For(0, 24, new ParallelOptions { MaxDegreeOfParallelism = 4 }, i =>
         {
             var c = new RigCache(new RigTableStore(dir, warnings.Enqueue));
@@ -192,10 +193,14 @@ public class RigTableStoreTests
             if (i % 3 == 2) return;
             p.Speed(Unit.KnotsToMs(4 + i), 0.8);
             c.Save();
+            Interlocked.Or(ref saved, (long)p.ReadyRows);
         });
         Assert.Empty(warnings); // no reader ever met half a file
         Assert.Empty(Directory.GetFiles(dir, "*.tmp"));
-        Assert.Single(Directory.GetFiles(dir));
+        Assert.Single(Directory.GetFiles(dir, "*.rigtables"));
+        // Savers take turns on the lock file, each merging into what the last left: no saver's rows are lost.
+        ulong all = (ulong)saved;
+        Assert.Equal(all, new RigCache(new RigTableStore(dir, warnings.Enqueue)).For(eq).ReadyRows & all);
         a.Save(); b.Save(); // one after the other: the second merges the first's rows
         var read = new RigCache(new RigTableStore(dir, warnings.Enqueue)).For(eq);
         ulong both = pa.ReadyRows | pb.ReadyRows;
