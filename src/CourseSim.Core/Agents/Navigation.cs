@@ -89,7 +89,7 @@ public static class Navigation
     public static Vec2 FinishAim(CourseLine line, Vec2 p, double headingRad)
     {
         var along = line.B - line.A;
-        var dir = new Vec2(Math.Sin(headingRad), Math.Cos(headingRad));
+        var dir = Vec2.Of(Math.SinCos(headingRad));
         double den = Vec2.Cross(dir, along);
         if (Math.Abs(den) < 1e-9) return line.Mid;
         // p + s dir = A + u along: s = cross(A - p, along) / den, u = cross(A - p, dir) / den.

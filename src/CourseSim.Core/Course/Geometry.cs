@@ -13,6 +13,8 @@ public readonly record struct Vec2(double X, double Y)
     public static double Cross(Vec2 a, Vec2 b) => a.X * b.Y - a.Y * b.X;
     /// <summary>Unit vector of a compass bearing (deg clockwise from north).</summary>
     public static Vec2 FromBearing(double deg) { var (s, c) = CourseSim.Units.FastMath.SinCos(deg * Math.PI / 180); return new(s, c); }
+    /// <summary>The vector (sine, cosine) of an angle: the unit vector of a bearing in radians, from Math.SinCos.</summary>
+    public static Vec2 Of((double Sin, double Cos) sc) => new(sc.Sin, sc.Cos);
     /// <summary>Compass bearing (deg, 0..360) of this vector.</summary>
     public double Bearing => CourseSim.Units.Unit.WrapDeg360(CourseSim.Units.FastMath.Atan2(X, Y) * 180 / Math.PI);
 }

@@ -77,7 +77,7 @@ public sealed class StepSnapshot
         for (int b = 0; b < Count; b++)
         {
             Track[b] = Math.Atan2(_rawSin[b], _rawCos[b]);
-            TrackSin[b] = Math.Sin(Track[b]); TrackCos[b] = Math.Cos(Track[b]);
+            (TrackSin[b], TrackCos[b]) = Math.SinCos(Track[b]);
             var f = Courses.Vec2.FromBearing(Units.Unit.RadToDeg(Heading[b]));
             HeadX[b] = f.X; HeadY[b] = f.Y;
         }

@@ -120,7 +120,7 @@ public static class Judge
     /// track's sine and cosine again and again.
     /// </summary>
     public static (double Sin, double Cos) TrackSinCos(StepSnapshot s, int k, double h) =>
-        BitConverter.DoubleToInt64Bits(h) == BitConverter.DoubleToInt64Bits(s.Track[k]) ? (s.TrackSin[k], s.TrackCos[k]) : (Math.Sin(h), Math.Cos(h));
+        BitConverter.DoubleToInt64Bits(h) == BitConverter.DoubleToInt64Bits(s.Track[k]) ? (s.TrackSin[k], s.TrackCos[k]) : Math.SinCos(h);
 
     /// <summary>
     /// Closest point of approach within the lookahead: time (s) and centre distance (m), a making good the track whose
@@ -152,7 +152,8 @@ public static class Judge
     {
         var s = c.Snapshot;
         double back = 0.5 * c.Fleet.LengthM[b] + Lookout.PassClearM + 2;
-        double px = s.X[b] - back * Math.Sin(s.Heading[b]), py = s.Y[b] - back * Math.Cos(s.Heading[b]);
+        var (hs, hc) = Math.SinCos(s.Heading[b]);
+        double px = s.X[b] - back * hs, py = s.Y[b] - back * hc;
         double vx = s.Speed[b] * s.TrackSin[b], vy = s.Speed[b] * s.TrackCos[b];
         // Lead: two passes of the fixed-point estimate of the meeting time.
         double t = 0;

@@ -71,7 +71,7 @@ public static class PenaltyTurn
     static bool DropsBack(RaceContext c, int b, in Pose pose)
     {
         var s = c.Snapshot;
-        double fx = Math.Sin(pose.Heading), fy = Math.Cos(pose.Heading);
+        var (fx, fy) = Math.SinCos(pose.Heading);
         foreach (int j in c.Grid.Neighbours(b))
         {
             double dx = s.X[j] - s.X[b], dy = s.Y[j] - s.Y[b];

@@ -32,7 +32,7 @@ public sealed class CourseProgressSystem : RaceSystem
             case RaceState.PreStart:
             {
                 // The hull is the stern-to-bow segment along the heading (as the rules see it: Rules/RightOfWay.cs).
-                var half = 0.5 * c.Fleet.LengthM[b] * new Vec2(Math.Sin(pose.Heading), Math.Cos(pose.Heading));
+                var half = 0.5 * c.Fleet.LengthM[b] * Vec2.Of(Math.SinCos(pose.Heading));
                 var lead = line.Ahead(p1 + half) >= line.Ahead(p1 - half) ? half : -1.0 * half; // the end further up the course
                 var e0 = p0 + lead; var e1 = p1 + lead;
                 if (time < 0 && t1 >= 0 && line.Ahead(e1) > 0 && WithinLine(line, e1))
@@ -52,7 +52,7 @@ public sealed class CourseProgressSystem : RaceSystem
             }
             case RaceState.Returning:
             {
-                var half = 0.5 * c.Fleet.LengthM[b] * new Vec2(Math.Sin(pose.Heading), Math.Cos(pose.Heading));
+                var half = 0.5 * c.Fleet.LengthM[b] * Vec2.Of(Math.SinCos(pose.Heading));
                 if (Math.Max(line.Ahead(p1 + half), line.Ahead(p1 - half)) < 0) { s.State = RaceState.PreStart; c.AddEvent(b, RaceEventKind.Cleared, pose, "whole hull back below the line"); }
                 break;
             }

@@ -91,7 +91,7 @@ public sealed class ManoeuvreSystem : RaceSystem
                     double side = twa >= 0 ? 1 : -1;
                     pose.Heading = Unit.WrapRadPi(Unit.DegToRad(sw.TrueFromDeg) - side * Math.PI / 2);
                     double tr = pose.Heading - side * mo.Leeway;
-                    mo.TrackSin = Math.Sin(tr); mo.TrackCos = Math.Cos(tr);
+                    (mo.TrackSin, mo.TrackCos) = Math.SinCos(tr);
                     trim.Sheet = 0;
                 }
                 break;
