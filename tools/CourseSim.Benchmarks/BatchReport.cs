@@ -39,6 +39,7 @@ public static class BatchReport
         var cpu0 = proc.TotalProcessorTime;
         var jit0 = System.Runtime.JitInfo.GetCompilationTime();
         int gc0 = GC.CollectionCount(0), gc2 = GC.CollectionCount(2);
+        var pause0 = GC.GetTotalPauseDuration();
         int done = 0, reportEvery = Math.Max(1, races / 10);
         var sw = Stopwatch.StartNew();
         Parallel.For(0, races, new ParallelOptions { MaxDegreeOfParallelism = threads }, i =>
@@ -60,7 +61,8 @@ public static class BatchReport
         Console.WriteLine($"  race length from the signal: mean {durations.Average() / 60:F1} min (min {durations.Min() / 60:F1}, max {durations.Max() / 60:F1}); " +
                           $"countdown {setup.Race.CountdownS:F0} s on top; {boardSteps} board-steps in all");
         Console.WriteLine($"  {races} races in {wall:F2} s wall = {perSec:F2} races/s; process CPU {cpu:F2} s = {cpu / races * 1e3:F0} ms CPU per race " +
-                          $"({boardSteps / cpu / 1e6:F2} M board-steps per CPU-s); JIT in the batch {jit * 1e3:F0} ms; GCs gen0 {GC.CollectionCount(0) - gc0}, gen2 {GC.CollectionCount(2) - gc2}");
+                          $"({boardSteps / cpu / 1e6:F2} M board-steps per CPU-s); JIT in the batch {jit * 1e3:F0} ms; GCs gen0 {GC.CollectionCount(0) - gc0}, gen2 {GC.CollectionCount(2) - gc2}, " +
+                          $"paused {(GC.GetTotalPauseDuration() - pause0).TotalMilliseconds:F0} ms");
         double for1000 = 1000 / perSec;
         double cpuFor1000 = cpu / races * 1000 / threads;
         Console.WriteLine($"  1,000 races: {(races == 1000 ? "measured" : "extrapolated")} {for1000:F1} s wall on {threads} threads (target < 30 s: {Stats.Verdict(for1000 < 30)})" +
