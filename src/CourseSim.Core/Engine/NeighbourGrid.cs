@@ -3,10 +3,10 @@ namespace CourseSim.Engine;
 /// <summary>
 /// The fleet's neighbour grid: square cells of <see cref="CellM"/> hashed into about twice as many buckets as boards and
 /// filled by counting sort, so a rebuild is O(N) however far the fleet spreads, with no allocation once sized. Boards go
-/// in in the canonical order (<see cref="Fleet.ByRank"/>), so every bucket lists them in that order and every pair list
-/// built from the grid has one order whatever the order of the scenario file. From the grid come the pairs within the
-/// lookout range, each board's neighbour list (compressed rows: at most <see cref="MaxNeighbours"/>, the nearest), the
-/// pairs close enough to touch before the next rebuild (all of them), and each board's nearest neighbour.
+/// in in the canonical order (<see cref="Fleet.ByRank"/>), so every bucket lists them in that order and every list
+/// built from the grid has one order whatever the order of the scenario file. From the grid come each board's neighbour
+/// list (at most <see cref="MaxNeighbours"/>, the nearest within the lookout range), the pairs close enough to touch
+/// before the next rebuild (all of them), and each board's nearest neighbour.
 /// </summary>
 public sealed class NeighbourGrid
 {
@@ -22,20 +22,20 @@ public sealed class NeighbourGrid
     readonly int _n;
     // The boards in cells of the lookout range (counting sort; see CellHash), rebuilt at each lookout.
     readonly CellHash _cells;
-    int[] _fill;
 
-    /// <summary>Pairs (a, b) within <see cref="RangeM"/>, in canonical order.</summary>
-    public readonly List<(int A, int B, double D)> Near;
-    /// <summary>Pairs within the contact watch distance.</summary>
+    /// <summary>Pairs within the contact watch distance (each once, from the board earlier in the canonical order).</summary>
     public readonly List<(int A, int B)> Close;
     /// <summary>Each board's distance to its nearest live neighbour, m (+infinity when none within range).</summary>
     public readonly double[] NearestM;
+    /// <summary>Pairs within <see cref="RangeM"/> at the last build (each pair once), for the benchmark's work counts.</summary>
+    public int PairsInRange { get; private set; }
+    // The rows (each board's kept neighbours) one after another, board b's at _adjStart[b], _adjLen[b] long.
     int[] _adjStart, _adjLen, _adj, _rank;
-    // Each row entry's key for picking the nearest: the distance in single precision (its bits order as the values
-    // do, distances being positive) above the neighbour's canonical rank (unique keys; ties go by rank).
-    ulong[] _adjK;
-    // Scratch for picking the nearest of a long row.
-    ulong[] _pick = new ulong[64];
+    // Scratch for one board's candidates: the neighbour, and its key for picking the nearest (the distance in single
+    // precision, whose bits order as the values do, distances being positive, above the neighbour's canonical rank:
+    // unique keys, ties go by rank). Earlier-ranked candidates and later ones apart (see Build).
+    int[] _eId = new int[64], _lId = new int[64];
+    ulong[] _eKey = new ulong[64], _lKey = new ulong[64], _pick = new ulong[128];
 
     public double RangeM { get; }
 
@@ -44,90 +44,89 @@ public sealed class NeighbourGrid
         _n = boards; RangeM = rangeM; CellM = rangeM;
         _cells = new CellHash(rangeM);
         NearestM = new double[boards];
-        _adjStart = new int[boards + 1]; _adjLen = new int[boards]; _rank = new int[boards];
-        _fill = new int[boards];
-        // Room up front for a bunched start (the 40-board demo's countdown grew these to about 25 pairs a board), so
-        // the step does not grow them; they still grow, once, for a denser fleet.
-        Near = new(32 * Math.Max(1, boards)); Close = new(4 * Math.Max(1, boards));
-        _adj = new int[Math.Max(64, 64 * boards)]; _adjK = new ulong[_adj.Length];
+        _adjStart = new int[boards]; _adjLen = new int[boards]; _rank = new int[boards];
+        // Room up front for a bunched start (the 40-board demo's countdown reached about 25 pairs a board), so the step
+        // does not grow it; it still grows, once, for a denser fleet.
+        Close = new(4 * Math.Max(1, boards));
+        _adj = new int[MaxNeighbours * Math.Max(1, boards) + 256];
     }
 
-    /// <summary>The neighbours of board b within range: all of them, or the nearest <see cref="MaxNeighbours"/> (in the order the pairs were found, rank order).</summary>
+    /// <summary>The neighbours of board b within range: all of them, or the nearest <see cref="MaxNeighbours"/>, in the
+    /// order of <see cref="Build"/>.</summary>
     public ReadOnlySpan<int> Neighbours(int b) => new(_adj, _adjStart[b], _adjLen[b]);
 
-    /// <summary>Rebuilds from the snapshot's live boards and lists the pairs within range and within <paramref name="closeM"/>.</summary>
+    /// <summary>
+    /// Rebuilds from the snapshot's live boards: each board's neighbours within range (kept to the nearest
+    /// <see cref="MaxNeighbours"/>), its nearest neighbour's distance, and the pairs within <paramref name="closeM"/>.
+    /// Board by board in the canonical order, each looks into the 3 x 3 cells round its own. A row lists the
+    /// neighbours earlier in the canonical order first, in that order, then the later ones in the order the cells are
+    /// walked (row of cells by row, each cell's boards in canonical order); the close pairs come from each board's later
+    /// neighbours in the same walk. (This is the order the grid had when it listed every pair within range first and
+    /// built the rows from that list, which it no longer makes: the same rows, so the same bits.) Each pair's distance
+    /// is worked out from both ends, with the same bits: x_a - x_b is exactly -(x_b - x_a).
+    /// </summary>
     public void Build(StepSnapshot s, int[] byRank, double closeM)
     {
         _cells.Build(s, byRank);
-        Near.Clear(); Close.Clear();
+        Close.Clear();
         double range2 = RangeM * RangeM;
-        for (int r = 0; r < byRank.Length; r++) { NearestM[byRank[r]] = double.PositiveInfinity; _rank[byRank[r]] = r; }
-        for (int r = 0; r < byRank.Length; r++)
+        int n = byRank.Length, fill = 0, pairs = 0;
+        for (int r = 0; r < n; r++) _rank[byRank[r]] = r;
+        for (int r = 0; r < n; r++)
         {
             int a = byRank[r];
+            _adjStart[a] = fill; _adjLen[a] = 0; NearestM[a] = double.PositiveInfinity;
             if (!s.Live[a]) continue;
-            double xa = s.X[a], ya = s.Y[a];
-            int ai = _cells.CellI(a), aj = _cells.CellJ(a);
+            double xa = s.X[a], ya = s.Y[a], nearest = double.PositiveInfinity;
+            int ai = _cells.CellI(a), aj = _cells.CellJ(a), ne = 0, nl = 0;
             for (int dj = -1; dj <= 1; dj++)
                 for (int di = -1; di <= 1; di++)
                 {
                     int ci = ai + di, cj = aj + dj;
-                    var bucket = _cells.Bucket(ci, cj);
-                    // Each pair once: from the board earlier in the canonical order. A bucket lists its boards in rank
-                    // order, so those at or before a in that order are a prefix, skipped by bisection (the same pairs
-                    // in the same order as testing each rank).
-                    int lo = 0, hi = bucket.Length;
-                    while (lo < hi) { int mid = (lo + hi) >> 1; if (bucket[mid].Rank <= r) lo = mid + 1; else hi = mid; }
-                    foreach (ref readonly var e in bucket[lo..])
+                    foreach (ref readonly var e in _cells.Bucket(ci, cj))
                     {
-                        if (e.Ci != ci || e.Cj != cj) continue;
+                        if (e.Ci != ci || e.Cj != cj || e.Rank == r) continue;
                         double dx = xa - e.X, dy = ya - e.Y, d2 = dx * dx + dy * dy;
                         if (d2 > range2) continue;
-                        int c = e.Board;
                         double d = Math.Sqrt(d2);
-                        Near.Add((a, c, d));
-                        if (d < closeM) Close.Add((a, c));
-                        if (d < NearestM[a]) NearestM[a] = d;
-                        if (d < NearestM[c]) NearestM[c] = d;
+                        if (d < nearest) nearest = d;
+                        ulong key = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32 | (uint)e.Rank;
+                        if (e.Rank < r) { Room(ref _eId, ref _eKey, ne); _eId[ne] = e.Board; _eKey[ne++] = key; continue; }
+                        Room(ref _lId, ref _lKey, nl); _lId[nl] = e.Board; _lKey[nl++] = key;
+                        pairs++;
+                        if (d < closeM) Close.Add((a, e.Board));
                     }
                 }
+            NearestM[a] = nearest;
+            // The earlier neighbours in canonical order (the key's low half is the rank): insertion sort of a few.
+            for (int i = 1; i < ne; i++)
+            {
+                int id = _eId[i]; ulong k = _eKey[i]; uint rk = (uint)k;
+                int j = i - 1;
+                for (; j >= 0 && (uint)_eKey[j] > rk; j--) { _eId[j + 1] = _eId[j]; _eKey[j + 1] = _eKey[j]; }
+                _eId[j + 1] = id; _eKey[j + 1] = k;
+            }
+            int len = ne + nl;
+            if (_adj.Length < fill + Math.Min(len, MaxNeighbours)) Array.Resize(ref _adj, 2 * (fill + len));
+            ulong cut = ulong.MaxValue;
+            if (len > MaxNeighbours)
+            {
+                if (_pick.Length < len) _pick = new ulong[2 * len];
+                Array.Copy(_eKey, 0, _pick, 0, ne); Array.Copy(_lKey, 0, _pick, ne, nl);
+                cut = NthSmallest(_pick, len, MaxNeighbours - 1);
+            }
+            for (int i = 0; i < ne; i++) if (_eKey[i] <= cut) _adj[fill++] = _eId[i];
+            for (int i = 0; i < nl; i++) if (_lKey[i] <= cut) _adj[fill++] = _lId[i];
+            _adjLen[a] = fill - _adjStart[a];
         }
-        // Each board's neighbours (compressed rows), so a rider's lookout walks only its own pairs.
-        Array.Clear(_adjStart);
-        var near = System.Runtime.InteropServices.CollectionsMarshal.AsSpan(Near);
-        foreach (var (a, c, _) in near) { _adjStart[a + 1]++; _adjStart[c + 1]++; }
-        for (int b = 0; b < _n; b++) _adjStart[b + 1] += _adjStart[b];
-        if (_adj.Length < 2 * near.Length) { _adj = new int[Math.Max(64, 4 * near.Length)]; _adjK = new ulong[_adj.Length]; }
-        Array.Copy(_adjStart, _fill, _n);
-        for (int p = 0; p < near.Length; p++)
-        {
-            var (a, c, d) = near[p];
-            ulong dk = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32;
-            _adjK[_fill[a]] = dk | (uint)_rank[c]; _adj[_fill[a]++] = c;
-            _adjK[_fill[c]] = dk | (uint)_rank[a]; _adj[_fill[c]++] = a;
-        }
-        for (int b = 0; b < _n; b++) _adjLen[b] = Keep(_adjStart[b], _adjStart[b + 1] - _adjStart[b]);
+        PairsInRange = pairs;
     }
 
-    /// <summary>
-    /// Cuts a row longer than <see cref="MaxNeighbours"/> to its nearest, in place and in its order; returns its length.
-    /// Nearest by one 64-bit key: the distance rounded to single precision (its bits order as the values do, distances
-    /// being positive) above the board's canonical rank, so ties (within a few micrometres at 100 m) go by rank and the
-    /// keys are unique: a deterministic choice whatever the file's order.
-    /// </summary>
-    int Keep(int start, int len)
+    /// <summary>Grows a candidate buffer (both columns) so index i fits: once, for a denser fleet than any before.</summary>
+    static void Room(ref int[] ids, ref ulong[] keys, int i)
     {
-        if (len <= MaxNeighbours) return len;
-        if (_pick.Length < len) _pick = new ulong[2 * len];
-        Array.Copy(_adjK, start, _pick, 0, len);
-        ulong cut = NthSmallest(_pick, len, MaxNeighbours - 1);
-        int w = start;
-        for (int i = start; i < start + len; i++)
-        {
-            if (_adjK[i] > cut) continue;
-            _adjK[w] = _adjK[i]; _adj[w++] = _adj[i];
-        }
-        return w - start;
+        if (i < ids.Length) return;
+        Array.Resize(ref ids, 2 * ids.Length); Array.Resize(ref keys, 2 * keys.Length);
     }
 
     /// <summary>The k-th smallest (0-based) of the first n keys (Hoare's selection, middle pivot; reorders them): O(n) on average.</summary>
@@ -149,11 +148,12 @@ public sealed class NeighbourGrid
         return a[k];
     }
 
-    /// <summary>Copies the pair lists and distances of another grid of the same fleet (for a checkpoint).</summary>
+    /// <summary>Copies the rows, close pairs and distances of another grid of the same fleet (for a checkpoint).</summary>
     public void CopyFrom(NeighbourGrid o)
     {
-        Near.Clear(); Near.AddRange(o.Near); Close.Clear(); Close.AddRange(o.Close);
+        Close.Clear(); Close.AddRange(o.Close);
         Array.Copy(o.NearestM, NearestM, _n);
-        _adjStart = (int[])o._adjStart.Clone(); _adjLen = (int[])o._adjLen.Clone(); _adj = (int[])o._adj.Clone(); _adjK = (ulong[])o._adjK.Clone();
+        PairsInRange = o.PairsInRange;
+        _adjStart = (int[])o._adjStart.Clone(); _adjLen = (int[])o._adjLen.Clone(); _adj = (int[])o._adj.Clone();
     }
 }
