@@ -47,7 +47,7 @@ public sealed class RaceContext
     public CounterRng TacticRng { get; }
 
     /// <summary>The rules' memory of conflicts a rider has seen as theirs to keep clear of: key (keep-clear board, other).</summary>
-    public Dictionary<long, Foreseen> Foreseen { get; internal set; }
+    public ForeseenConflicts Foreseen { get; internal set; }
     /// <summary>Pairs in contact now (a contact is judged once, when it begins).</summary>
     public HashSet<long> Touching { get; internal set; }
     /// <summary>Each board's speed at the last lookout (for the acceleration a rider reads), m/s.</summary>
@@ -69,7 +69,7 @@ public sealed class RaceContext
         Snapshot = new StepSnapshot(n);
         Grid = new NeighbourGrid(n, RulesRangeM);
         // Room up front (capacity changes no order: entries are kept in insertion order), so the step does not grow them.
-        Foreseen = new(16 * Math.Max(1, n), PairKeys.Instance);
+        Foreseen = new(n);
         Touching = new(Math.Max(1, n), PairKeys.Instance);
         Log = new RaceLog(n);
         Recorder = new Recorder(n, setup.Race.RecordIntervalS, -setup.Race.CountdownS);

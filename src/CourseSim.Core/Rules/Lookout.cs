@@ -130,7 +130,7 @@ public sealed class Lookout : RaceSystem
             }
             bool mine = keep == k || turning && keep >= 0;
             bool lastMoment = keep == j && t < LastMomentS && !s.KeepingClear[j];
-            if (keep == k && (!c.Foreseen.TryGetValue(key, out var seen) || seen.Rule != rule)) c.Foreseen[key] = new Foreseen(c.Time, rule, s.Heading[j]);
+            if (keep == k && (!c.Foreseen.TryGetValue(key, out var seen) || seen.Rule != rule)) c.Foreseen.Set(key, new Foreseen(c.Time, rule, s.Heading[j]));
             if (!mine && !lastMoment) continue;
             _threats.Add(j);
             if (firstOther < 0) { firstOther = j; firstRule = keep == k ? rule : turning ? Judge.Rule16 : Judge.Rule14; }
