@@ -101,12 +101,25 @@ public static class PolarCharts
         var title = plt.Add.Text($"{polar.Name}: board speed by true wind angle", -max * 0.1, max * 1.27);
         title.LabelFontSize = 17; title.LabelBold = true;
         if (subtitle is not null) { var sub = plt.Add.Text(subtitle, -max * 0.1, max * 1.19); sub.LabelFontSize = 13; }
-        plt.Axes.SetLimits(-max * 0.12, max * 1.25, -max * 1.1, max * 1.3);
+        plt.Axes.SetLimits(-max * 0.12, max * 1.25, -max * 1.2, max * 1.3);
         plt.Axes.SquareUnits();
         plt.Axes.Frameless();
         plt.HideGrid();
         plt.ShowLegend(Edge.Right);
+        var note = plt.Add.Text(CautionLines, -max * 0.1, -max * 1.1);
+        note.LabelFontSize = 12; note.LabelFontColor = Colors.DimGray;
         plt.SavePng(path, 1150, 1050);
+    }
+
+    /// <summary>The caution (<see cref="Caution.Text"/>) in two lines, for the foot of a chart: a chart is passed
+    /// around without the terminal output it came with.</summary>
+    public static readonly string CautionLines = Caution.Text.Replace("; defer", ";\ndefer", StringComparison.Ordinal);
+
+    /// <summary>An x-axis label with the caution under it, in the label's font made smaller and plain.</summary>
+    public static void XLabelWithCaution(Plot plt, string label)
+    {
+        plt.XLabel($"{label}\n\n{CautionLines}");
+        plt.Axes.Bottom.Label.FontSize = 12; plt.Axes.Bottom.Label.Bold = false;
     }
 
     /// <summary>A one-line description of a set-up for chart titles: rider mass, sail, board.</summary>
@@ -132,7 +145,7 @@ public static class PolarCharts
             var v = plt.Add.VerticalLine(cr.TwsKn); v.Color = Colors.Gray; v.LinePattern = LinePattern.Dotted;
         }
         plt.Title($"{cmp.A.Name} (solid) vs {cmp.B.Name} (dashed)");
-        plt.XLabel("true wind speed at 10 m (kn)");
+        XLabelWithCaution(plt, "true wind speed at 10 m (kn)");
         plt.YLabel("knots");
         plt.ShowLegend(Alignment.UpperLeft);
         plt.SavePng(path, 1000, 650);

@@ -16,7 +16,7 @@ public static class WindCharts
         d.Axes.YAxis = plt.Axes.Right; d.LineWidth = 1.2f;
         plt.Axes.Right.Label.Text = "direction the wind comes from (deg true)";
         plt.YLabel("speed at 10 m (kn)");
-        plt.XLabel("minutes");
+        PolarCharts.XLabelWithCaution(plt, "minutes");
         plt.Title(title);
         plt.ShowLegend(Alignment.UpperLeft);
         plt.SavePng(path, 1100, 500);
@@ -47,7 +47,7 @@ public static class WindCharts
                 a.ArrowFillColor = Colors.White; a.ArrowLineColor = Colors.Black; a.ArrowLineWidth = 1;
             }
         plt.Title(title);
-        plt.XLabel("east (m)"); plt.YLabel("north (m)");
+        PolarCharts.XLabelWithCaution(plt, "east (m)"); plt.YLabel("north (m)");
         plt.Axes.SquareUnits();
         plt.SavePng(path, 900, 800);
     }

@@ -18,6 +18,13 @@ public static class Navigation
     public const double RoundingOffsetM = 8;
     /// <summary>Overstand allowed past the layline before tacking or gybing, deg (model value).</summary>
     public const double LaylineMarginDeg = 2;
+    /// <summary>
+    /// Deepest true wind angle a rider runs at, deg: off the plane a rig's best downwind VMG can be within a degree or two
+    /// of dead downwind, where a few degrees of wind shift (or of the rider's misreading of it) put the board by the lee
+    /// and back, and riders keep off it by this much to stay clear of an unwanted gybe (common practice; the VMG given up
+    /// is a few per cent: cos 165 deg is 0.966 of cos 180 deg). The polar itself still reports the best angle.
+    /// </summary>
+    public const double RunMaxTwaDeg = 165;
     /// <summary>Within this distance of the aim point a running rider steers straight at it, m (model value).</summary>
     public const double CloseRunM = 40;
     /// <summary>How far ahead a rider checks which side of the next mark the present course passes it, m (model value).</summary>
@@ -37,7 +44,7 @@ public static class Navigation
         if (d.Length < 1e-6) return wind - tack * Math.PI / 2;
         double bearing = Unit.DegToRad(d.Bearing);
         double direct = Unit.WrapRadPi(wind - bearing); // signed TWA of the direct course
-        double up = rig.BestTwa(tws, true), down = rig.BestTwa(tws, false);
+        double up = rig.BestTwa(tws, true), down = Math.Min(rig.BestTwa(tws, false), Unit.DegToRad(RunMaxTwaDeg));
         double margin = Unit.DegToRad(LaylineMarginDeg);
         // The target is on the layline of the other tack (or gybe) when its direct TWA, on that side, has reached the
         // best VMG angle; until then the present one is held.

@@ -27,8 +27,15 @@ public static class Tuning
     public const double InWaterDragAreaM2 = 0.6;
     /// <summary>Rider's reaction time constant for sheeting, s, at skill 1 and 0 (from memory: human reaction 0.2-0.5 s).</summary>
     public const double SheetLagExpertS = 0.2, SheetLagNoviceS = 0.6;
-    /// <summary>Fall hazard per second per unit of heeling moment beyond the limit, at skill 0 (model value).</summary>
+    /// <summary>Fall hazard per second per unit of heeling moment beyond <see cref="OverpowerFallFrom"/>, at skill 0 (model value).</summary>
     public const double OverpowerHazardPerS = 2.0;
+    /// <summary>
+    /// Heel use (held heeling moment over the rider's steady limit) from which an overpowered rider may fall (model
+    /// value). The steady limit is what a rider holds for minutes, hanging from the harness; for a second or two they
+    /// take more by dropping their weight lower and further out and by easing the sheet a little, so the rider's own
+    /// sheeting lag in a gusty breeze (a few per cent over) is no fall: a catapult takes a gust well past the limit.
+    /// </summary>
+    public const double OverpowerFallFrom = 1.10;
     /// <summary>Time constant of the rider's reading of the wind, s (smooths gusts: from memory, riders judge shifts over a few seconds).</summary>
     public const double PerceptionLagS = 3.0;
     /// <summary>Share of W' the rider keeps in hand: pumping stops below it (model value).</summary>

@@ -36,13 +36,13 @@ public sealed class ManoeuvreSystem : RaceSystem
         {
             case Manoeuvre.None:
                 {
-                    // Overpowered: the hazard grows with the moment beyond the limit and with lack of skill (no falls in
-                    // the first seconds, while the fleet gets going).
-                    double over = trim.HeelUse - 1;
-                    if (over > 0.02 && falls && c.Time > -c.Settings.CountdownS + 5)
+                    // Overpowered: the hazard grows with the moment held beyond what the rider can take for a moment
+                    // (Tuning.OverpowerFallFrom) and with lack of skill (no falls in the first seconds, while the fleet gets going).
+                    double over = trim.HeelUse - Tuning.OverpowerFallFrom;
+                    if (over > 0 && falls && c.Time > -c.Settings.CountdownS + 5)
                     {
                         double hazard = Tuning.OverpowerHazardPerS * over * (1 - 0.8 * skill);
-                        if (rng.Uniform((ulong)c.StepIndex * 2) < hazard * dt) { Fall(c, ref m, ref st, b, pose, mo.Speed, "overpowered in a gust"); break; }
+                        if (rng.Uniform((ulong)c.StepIndex * 2) < hazard * dt) { Fall(c, ref m, ref st, b, pose, mo.Speed, "overpowered"); break; }
                     }
                     double wantTwa = Sailing.SignedAngle(sw.TrueFromDeg, intent.Heading);
                     if (FastMath.Sign(wantTwa) != FastMath.Sign(twa) && twa != 0 && wantTwa != 0)
@@ -102,6 +102,6 @@ public sealed class ManoeuvreSystem : RaceSystem
     {
         m.Kind = Manoeuvre.Fallen; m.Phase = 0; m.Timer = 0;
         st.Falls++;
-        c.AddEvent(board, RaceEventKind.Fall, p, "{0} at {2:F1} kn", why, null, Unit.MsToKnots(speed)); // the text is made when read
+        c.AddEvent(board, RaceEventKind.Fall, p, "{0} at {2:F1} kn board speed", why, null, Unit.MsToKnots(speed)); // the text is made when read
     }
 }
