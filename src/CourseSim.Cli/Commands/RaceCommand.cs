@@ -170,7 +170,7 @@ public static class RaceCommand
         {
             string who(int b) => b < 0 ? "-" : race.Setup.Boards[b].Name;
             t.AddRow(Markup.Escape(Clock(Math.Abs(i.TimeS)) + (i.TimeS < 0 ? " before" : "")), Markup.Escape(F(i.X, "0") + ", " + F(i.Y, "0")),
-                Markup.Escape(who(i.KeepClear)), Markup.Escape(who(i.RightOfWay)), i.Rule, i.Penalty ? "one turn" : "-", Markup.Escape(i.Detail));
+                Markup.Escape(who(i.KeepClear)), Markup.Escape(who(i.RightOfWay)), i.Rule, Markup.Escape(i.Penalty ? "one turn: " + who(i.Penalised) : "-"), Markup.Escape(i.Detail));
         }
         return t;
     }
@@ -242,12 +242,12 @@ public static class RaceCommand
 
     static string IncidentsCsv(Race race, RaceResult result)
     {
-        var sb = new StringBuilder("time_s,x_m,y_m,keep_clear,right_of_way,rule,penalty,avoidable,detail\n");
+        var sb = new StringBuilder("time_s,x_m,y_m,keep_clear,right_of_way,rule,penalty,penalised,avoidable,detail\n");
         string who(int b) => b < 0 ? "" : Csv(race.Setup.Boards[b].Name);
         foreach (var i in result.Incidents)
             sb.Append(N(i.TimeS)).Append(',').Append(N(i.X)).Append(',').Append(N(i.Y)).Append(',').Append(who(i.KeepClear)).Append(',')
               .Append(who(i.RightOfWay)).Append(',').Append(i.Rule).Append(',').Append(i.Penalty ? "true" : "false").Append(',')
-              .Append(i.Avoidable ? "true" : "false").Append(',').Append(Csv(i.Detail)).Append('\n');
+              .Append(who(i.Penalised)).Append(',').Append(i.Avoidable ? "true" : "false").Append(',').Append(Csv(i.Detail)).Append('\n');
         return sb.ToString();
     }
 
@@ -273,7 +273,8 @@ public static class RaceCommand
             time_s = i.TimeS, x_m = i.X, y_m = i.Y,
             keep_clear = i.KeepClear < 0 ? null : race.Setup.Boards[i.KeepClear].Name,
             right_of_way = i.RightOfWay < 0 ? null : race.Setup.Boards[i.RightOfWay].Name,
-            rule = i.Rule, penalty = i.Penalty, avoidable = i.Avoidable, detail = i.Detail,
+            rule = i.Rule, penalty = i.Penalty, penalised = i.Penalised < 0 ? null : race.Setup.Boards[i.Penalised].Name,
+            avoidable = i.Avoidable, detail = i.Detail,
         }),
         caution = Caution.Text,
     });

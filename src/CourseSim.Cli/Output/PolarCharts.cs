@@ -143,6 +143,7 @@ public static class PolarCharts
         foreach (var cr in cmp.Crossovers)
         {
             var v = plt.Add.VerticalLine(cr.TwsKn); v.Color = Colors.Gray; v.LinePattern = LinePattern.Dotted;
+            v.LegendText = $"crossover, {cr.Measure}: {cr.TwsKn:0.0} kn";
         }
         plt.Title($"{cmp.A.Name} (solid) vs {cmp.B.Name} (dashed)");
         XLabelWithCaution(plt, "true wind speed at 10 m (kn)");

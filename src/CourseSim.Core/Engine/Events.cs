@@ -1,12 +1,13 @@
 namespace CourseSim.Engine;
 
 /// <summary>
-/// An incident: two boards in contact. Who was to keep clear (-1 when nobody was, as with a capsized board), the rule,
-/// whether a penalty was given, and whether the keep-clear board's give-way logic could have avoided it (it had seen
-/// the conflict in time, was free to act, and the right-of-way board held its course).
+/// An incident: two boards in contact. Who was to keep clear and the other board (-1 for both when both were in the
+/// water; a capsized board is the other board, rule 22), the rule, whether a penalty was given and to which board (not
+/// always the keep-clear one: rules 15, 16.1 and 43.1(a)), and whether the keep-clear board's give-way logic could have
+/// avoided it (it had seen the conflict in time, was free to act, and the right-of-way board held its course).
 /// </summary>
 public sealed record RaceIncident(double TimeS, double X, double Y, int KeepClear, int RightOfWay, string Rule, bool Penalty,
-    bool Avoidable, string Detail);
+    bool Avoidable, string Detail, int Penalised = -1);
 
 public enum RaceEventKind : byte { Started, Ocs, Cleared, Rounded, WrongSide, Tack, Gybe, Fall, Finished, NotFinished, GiveWay, Contact, PenaltyServed }
 

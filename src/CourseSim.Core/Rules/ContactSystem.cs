@@ -49,7 +49,7 @@ public sealed class ContactSystem : RaceSystem
         bool capsized = rule == Judge.Rule22 || keep < 0;
         string detail, ruleText = Judge.RuleText[rule]; bool avoidable = false;
         int penalised = keep;
-        if (capsized) detail = keep < 0 ? "both boards in the water" : $"{names[row]} capsized in the way";
+        if (capsized) detail = keep < 0 ? $"{names[a]} and {names[b]} both in the water" : $"{names[row]} capsized in the way";
         else
         {
             var wake = c.World.Get<Wake>(c.Fleet.Entities[keep]);
@@ -73,7 +73,9 @@ public sealed class ContactSystem : RaceSystem
                 penalised = by; ruleText = "43.1(a)";
                 detail = $"{names[keep]} (keep clear under rule {Judge.RuleText[rule]}) was compelled by {names[by]}'s breach ({why}): {names[keep]} exonerated (rule 43.1(a)); {names[by]} penalised";
             }
-            else if (turned > Judge.AlterDeg) detail = $"right-of-way board changed course by {turned:F0} deg";
+            else if (turned > Judge.AlterDeg)
+                detail = c.Rules.JudgeRoom ? $"right-of-way board changed course by {turned:F0} deg since the conflict was first seen, leaving room to keep clear (not rule 16.1)"
+                    : $"right-of-way board changed course by {turned:F0} deg";
             else if (s.Busy[keep]) detail = "keep-clear board mid-manoeuvre (begun well clear)";
             else if (warning < c.Fleet.ReactionS[keep] + 1.0) detail = $"seen {warning:F1} s before contact";
             else { avoidable = true; detail = $"seen {warning:F1} s before contact and not avoided"; }
@@ -81,7 +83,7 @@ public sealed class ContactSystem : RaceSystem
         }
         bool penalty = !capsized && c.Rules.Penalties;
         if (penalty) c.World.Get<Penalty>(c.Fleet.Entities[penalised]).Owed++;
-        c.Log.Incidents.Add(new RaceIncident(c.Time, x, y, capsized ? -1 : keep, capsized ? -1 : row, ruleText, penalty, avoidable, detail));
+        c.Log.Incidents.Add(new RaceIncident(c.Time, x, y, keep, row, ruleText, penalty, avoidable, detail, penalty ? penalised : -1));
         string who = capsized ? $"{names[a]} and {names[b]}" : $"{names[keep]} (keep clear) and {names[row]}";
         string pen = !penalty ? "" : penalised == keep ? "; one-turn penalty" : $"; one-turn penalty for {names[penalised]}";
         c.Log.Add(c.Time, capsized ? a : keep, RaceEventKind.Contact, x, y, $"{who}: rule {ruleText}; {detail}{pen}");

@@ -38,7 +38,8 @@ public sealed class CourseProgressSystem : RaceSystem
                 if (time < 0 && t1 >= 0 && line.Ahead(e1) > 0 && WithinLine(line, e1))
                 {
                     s.State = RaceState.Returning; s.Ocs = true;
-                    c.AddEvent(b, RaceEventKind.Ocs, pose, "on the course side at the signal (by {2:0.00} m)", null, null, line.Ahead(e1));
+                    double by = line.Ahead(e1);
+                    c.AddEvent(b, RaceEventKind.Ocs, pose, by < 0.005 ? "on the course side at the signal (by under 1 cm)" : "on the course side at the signal (by {2:0.00} m)", null, null, by);
                 }
                 // Started: the leading end is over the line between its ends, coming from below (the trailing end was
                 // below it a step ago; a turn can swing the bow over without the hull's centre moving much).
