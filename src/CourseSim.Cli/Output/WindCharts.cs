@@ -35,7 +35,7 @@ public static class WindCharts
         var hm = plt.Add.Heatmap(grid);
         hm.Colormap = new ScottPlot.Colormaps.Viridis();
         hm.Extent = new CoordinateRect(-half, half, -half, half);
-        plt.Add.ColorBar(hm).Label = "speed at 10 m (kn)";
+        plt.Add.ColorBar(hm); // its own label overlaps the tick labels: the title names the shading instead
         int m = 10; double as_ = areaM / m;
         for (int i = 0; i < m; i++)
             for (int j = 0; j < m; j++)
@@ -46,7 +46,7 @@ public static class WindCharts
                 var a = plt.Add.Arrow(new Coordinates(x + Math.Sin(r) * len / 2, y + Math.Cos(r) * len / 2), new Coordinates(x - Math.Sin(r) * len / 2, y - Math.Cos(r) * len / 2));
                 a.ArrowFillColor = Colors.White; a.ArrowLineColor = Colors.Black; a.ArrowLineWidth = 1;
             }
-        plt.Title(title);
+        plt.Title($"{title}\nshading: speed at 10 m (kn); arrows: where the wind blows to");
         PolarCharts.XLabelWithCaution(plt, "east (m)"); plt.YLabel("north (m)");
         plt.Axes.SquareUnits();
         plt.SavePng(path, 900, 800);
