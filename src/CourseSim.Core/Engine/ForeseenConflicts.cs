@@ -26,11 +26,6 @@ public sealed class ForeseenConflicts
         _byKeeper = (int[])o._byKeeper.Clone();
     }
 
-    public int Count => _map.Count;
-
-    /// <summary>Whether board k holds any foreseen conflict as the keep-clear board.</summary>
-    public bool AnyFor(int k) => _byKeeper[k] != 0;
-
     public bool ContainsKey(long key) => _byKeeper[Keeper(key)] != 0 && _map.ContainsKey(key);
 
     public bool TryGetValue(long key, out Foreseen f)

@@ -343,7 +343,7 @@ public sealed class Lookout : RaceSystem
         // edge of an overlap go from one to the other as they move), is the same encounter: the rule is updated, no new
         // episode is counted or logged. A change to another rule (a tack put off under rule 16 becoming a keep-clear
         // under rule 13, say) is a new situation, logged as ever.
-        if (gw.On && gw.Other == other && gw.Rule is 11 or 12 && rule is 11 or 12) { gw.Rule = rule; return; }
+        if (gw.On && gw.Other == other && gw.Rule is (11 or 12) && rule is (11 or 12)) { gw.Rule = rule; return; }
         if (!gw.On) gw.AtS = c.Time + c.Fleet.ReactionS[k];
         gw.On = true; gw.Other = other; gw.Rule = rule; gw.Episodes++;
         if (!double.IsNaN(pendingAt)) gw.AtS = Math.Min(gw.AtS, pendingAt); // seen while deciding: acted on with it
