@@ -18,6 +18,8 @@ namespace CourseSim.Benchmarks;
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- scale-quick [N] [S]   (N boards and 40 to +S s, per system)
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- alloc-by-system [--cold] [--from S] [--steps N]   (bytes each system allocates from S s (default +60) for N steps (4,000); --cold: no warm-up race)
 ///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- report-alloc   (the report's bytes per board-step alone, after a warm-up race)
+///   dotnet run -c Release --project tools/CourseSim.Benchmarks -- ab OTHER/CourseSim.Benchmarks.dll [--rounds N] [--races M] [--this PATH]
+///       (this build against another's, race-loop in turn, a paired ratio with its 95 % interval: AbCompare)
 /// Figures are printed, never asserted in tests (see DEVELOPERS.md).
 /// </summary>
 public static class Program
@@ -105,6 +107,7 @@ public static class Program
     {
         if (args.Length >= 1 && args[0] == "scale-quick") return ScaleQuick(args);
         if (args.Length >= 1 && args[0] == "race-loop") return RaceLoop(args);
+        if (args.Length >= 1 && args[0] == "ab") return AbCompare.Run(args);
         if (args.Length >= 1 && args[0] == "alloc-by-system") return AllocBySystem();
         if (args.Length >= 1 && args[0] == "report-alloc") { Machine.PrintHeader(); RaceReport.AllocationOnly(); return 0; }
         if (args.Length == 0 || (args[0] != "report" && args[0] != "report-batch"))
