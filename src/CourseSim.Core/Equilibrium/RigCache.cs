@@ -53,9 +53,8 @@ public sealed class RigCache
             {
                 if (!lazy.IsValueCreated) continue;
                 var e = lazy.Value;
-                ulong rows = e.Polar.ReadyRows;
-                if (!Store.Save(e.Polar, e.OnDisk, e.TablesOnDisk)) continue;
-                e.OnDisk |= rows; e.TablesOnDisk = true;
+                if (!Store.Save(e.Polar, e.OnDisk, e.TablesOnDisk, out ulong saved)) continue;
+                e.OnDisk |= saved; e.TablesOnDisk = true;
                 written++;
             }
         }

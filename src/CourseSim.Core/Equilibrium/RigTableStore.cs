@@ -115,31 +115,23 @@ public sealed class RigTableStore
     }
 
     /// <summary>Saves what the polar has built that the file lacks, merged with what the file holds now (another
-    /// process may have added rows since it was loaded). False if there was nothing new or the save failed (warned).</summary>
-    internal bool Save(RigPolar polar, ulong loadedRows, bool loadedTables)
+    /// process may have added rows since it was loaded): the file's rows are taken into the polar as at loading
+    /// (<see cref="RigPolar.ImportRows"/>, which keeps what the polar built; rows are pure functions of the set-up, so
+    /// this changes no bit) and the polar's whole set is written. False if there was nothing new or the save failed
+    /// (warned); <paramref name="savedRows"/> are the rows the file now holds.</summary>
+    internal bool Save(RigPolar polar, ulong loadedRows, bool loadedTables, out ulong savedRows)
     {
+        savedRows = 0;
         if ((polar.ReadyRows & ~loadedRows) == 0 && loadedTables) return false;
         using var turn = TakeTurn();
         var eq = polar.Rig.Equipment;
         string key = KeyOf(eq), path = PathFor(key);
+        if (TryRead(path, key, false) is { } disk) polar.ImportRows(disk);
         var mine = polar.ExportRows();
         mine.Setup = StableText(eq);
         mine.Trim = polar.Rig.ExportTrim();
         mine.Hull = HullTableData.Of(polar.Rig.Hull.Table);
-        if (TryRead(path, key, false) is { } disk)
-        {
-            var have = mine.Rows.Select(r => r.W).ToHashSet();
-            mine.Rows.AddRange(disk.Rows.Where(r => !have.Contains(r.W)));
-            mine.Rows.Sort((a, b) => a.W.CompareTo(b.W));
-            var havePlan = mine.Plan.Select(r => r.W).ToHashSet();
-            mine.Plan.AddRange(disk.Plan.Where(r => !havePlan.Contains(r.W)));
-            mine.Plan.Sort((a, b) => a.W.CompareTo(b.W));
-            var memo = new SortedDictionary<int, double>();
-            for (int i = 0; i < disk.DropOffKeys.Length; i++) memo[disk.DropOffKeys[i]] = disk.DropOffWinds[i];
-            for (int i = 0; i < mine.DropOffKeys.Length; i++) memo[mine.DropOffKeys[i]] = mine.DropOffWinds[i];
-            mine.DropOffKeys = memo.Keys.ToArray();
-            mine.DropOffWinds = memo.Values.ToArray();
-        }
+        foreach (var r in mine.Rows) savedRows |= 1UL << r.W;
         byte[] payload = MessagePackSerializer.Serialize(mine);
         byte[] bytes = MessagePackSerializer.Serialize(new RigTableFile { Format = FormatVersion, Key = key, Payload = payload, PayloadSha256 = SHA256.HashData(payload) });
         string tmp = Path.Combine(Folder, $"{key}.{System.Environment.ProcessId}.{Guid.NewGuid():N}.tmp");
@@ -158,6 +150,7 @@ public sealed class RigTableStore
         {
             try { File.Delete(tmp); } catch (Exception d) when (d is IOException or UnauthorizedAccessException) { /* nothing more to do */ }
             _warn($"rig table cache: cannot save {path} ({e.Message}); the tables will be built again next time");
+            savedRows = 0;
             return false;
         }
     }
