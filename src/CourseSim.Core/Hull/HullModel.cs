@@ -66,7 +66,7 @@ public sealed class HullModel
     internal IReadOnlyList<HullState> Table => _table;
 
     /// <summary>The hull with its resistance table given (as built before for this very hull, read back from the disk
-    /// cache), or built when <paramref name="table"/> is null.</summary>
+    /// cache; the hull keeps the array, which the caller made for it), or built when <paramref name="table"/> is null.</summary>
     internal HullModel(BoardSpec spec, double totalMassKg, double density, double kinematicViscosity, double gravity, double chopDragAreaM2, HullState[]? table)
     {
         Spec = spec;
@@ -79,7 +79,7 @@ public sealed class HullModel
         // Resting wetted area: bottom planform about 0.7 of length x width, plus the rails.
         RestingWettedAreaM2 = 0.7 * spec.LengthM * spec.WidthCm / 100.0 * 1.1;
         int n = TableLength;
-        if (table is not null) _table = (HullState[])table.Clone();
+        if (table is not null) _table = table;
         else
         {
             _table = new HullState[n];
