@@ -37,8 +37,9 @@ public sealed class ForeseenConflicts
     /// <summary>Adds or replaces the conflict under key.</summary>
     public void Set(long key, Foreseen f)
     {
-        if (_map.TryAdd(key, f)) _byKeeper[Keeper(key)]++;
-        else _map[key] = f;
+        ref var slot = ref System.Runtime.InteropServices.CollectionsMarshal.GetValueRefOrAddDefault(_map, key, out bool held);
+        if (!held) _byKeeper[Keeper(key)]++;
+        slot = f;
     }
 
     public bool Remove(long key)
