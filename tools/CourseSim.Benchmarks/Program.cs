@@ -48,8 +48,7 @@ public static class Program
             if (i == 0)
             {
                 var w = race.Context.Work;
-                Console.WriteLine($"    work (counts, the same every race): threat checks {w.NeighbourChecks}, give-way searches {w.GiveWaySearches}, " +
-                                  $"candidates vetted {w.CandidatesVetted}, hull-gap predictions {w.HullGapProbes}, grid pairs {w.GridPairs}");
+                Console.WriteLine("    work (counts, the same every race): " + string.Join(", ", RaceReport.WorkRows.Select(r => $"{r.Name} {r.Of(w)}")));
             }
             if (t is not null)
                 Console.WriteLine("    wall ns per board-step (40 boards x steps): " + string.Join(", ", Enumerable.Range(0, t.Names.Length).Select(k => $"{t.Names[k]} {t.NsPerBoardStep(k, 40):F1}")));

@@ -23,6 +23,14 @@ public static class RaceReport
 {
     const long BaselineAgentSteps = 2_000_000;
 
+    /// <summary>The rules' work counts, labelled, as `report` and `race-loop` print them.</summary>
+    internal static readonly (string Name, Func<WorkCounts, long> Of)[] WorkRows =
+    [
+        ("neighbours checked in threat scans", w => w.NeighbourChecks), ("give-way searches", w => w.GiveWaySearches),
+        ("candidate courses vetted in them", w => w.CandidatesVetted),
+        ("hull-gap predictions", w => w.HullGapProbes), ("grid pairs listed", w => w.GridPairs),
+    ];
+
     public static void Run(ReportOptions o)
     {
         double sink = 0;
@@ -153,10 +161,7 @@ public static class RaceReport
         static double Per(long n, RaceRun r) => n / (double)Math.Max(1, r.TotalBoardSteps);
         var first = small[0];
         Console.WriteLine($"  the rules' work per board-step, counted (does not swing with the machine's load): {"40",6} {big,8} {"ratio",7}");
-        foreach (var (name, f) in new (string, Func<WorkCounts, long>)[] {
-                     ("neighbours checked in threat scans", w => w.NeighbourChecks), ("give-way searches", w => w.GiveWaySearches),
-                     ("candidate courses vetted in them", w => w.CandidatesVetted),
-                     ("hull-gap predictions", w => w.HullGapProbes), ("grid pairs listed", w => w.GridPairs) })
+        foreach (var (name, f) in WorkRows)
         {
             double a = Per(f(first.Work), first), b = Per(f(bigRun.Work), bigRun);
             Console.WriteLine($"    {name,-44} {a,33:F3} {b,8:F3} {b / a,6:F2} x");
