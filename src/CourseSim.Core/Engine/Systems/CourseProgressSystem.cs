@@ -31,8 +31,7 @@ public sealed class CourseProgressSystem : RaceSystem
         {
             case RaceState.PreStart:
             {
-                // The hull is the stern-to-bow segment along the heading (as the rules see it: Rules/RightOfWay.cs).
-                var half = 0.5 * c.Fleet.LengthM[b] * Vec2.Of(Math.SinCos(pose.Heading));
+                var half = HalfHull(c, b, pose);
                 var lead = line.Ahead(p1 + half) >= line.Ahead(p1 - half) ? half : -1.0 * half; // the end further up the course
                 var e0 = p0 + lead; var e1 = p1 + lead;
                 if (time < 0 && t1 >= 0 && line.Ahead(e1) > 0 && WithinLine(line, e1))
@@ -53,7 +52,7 @@ public sealed class CourseProgressSystem : RaceSystem
             }
             case RaceState.Returning:
             {
-                var half = 0.5 * c.Fleet.LengthM[b] * Vec2.Of(Math.SinCos(pose.Heading));
+                var half = HalfHull(c, b, pose);
                 if (Math.Max(line.Ahead(p1 + half), line.Ahead(p1 - half)) < 0) { s.State = RaceState.PreStart; c.AddEvent(b, RaceEventKind.Cleared, pose, "whole hull back below the line"); }
                 break;
             }
@@ -86,6 +85,10 @@ public sealed class CourseProgressSystem : RaceSystem
         }
         wake.PrevX = p1.X; wake.PrevY = p1.Y;
     }
+
+    /// <summary>From the hull's centre to its bow: the hull is the stern-to-bow segment along the heading (as the rules
+    /// see it: Rules/RightOfWay.cs).</summary>
+    static Vec2 HalfHull(RaceContext c, int b, in Pose pose) => 0.5 * c.Fleet.LengthM[b] * Vec2.Of(Math.SinCos(pose.Heading));
 
     static bool WithinLine(CourseLine line, Vec2 p)
     {
