@@ -28,6 +28,13 @@ public sealed class RaceLog
     public void Add(double timeS, int board, RaceEventKind kind, double x, double y, string format, string? a, string? b, double value) =>
         Events.Add(new RaceEvent(timeS, board, kind, x, y, format, a, b, value));
 
+    /// <summary>Judges a contact: the incident and its event (whose text is the incident's), nothing allocated here.</summary>
+    public void AddContact(in RaceIncident incident, int board)
+    {
+        Incidents.Add(incident);
+        Events.Add(new RaceEvent(incident.TimeS, board, RaceEventKind.Contact, incident.X, incident.Y, Incidents, Incidents.Count - 1));
+    }
+
     /// <summary>A deep copy (events and incidents are immutable values).</summary>
     public RaceLog Copy()
     {

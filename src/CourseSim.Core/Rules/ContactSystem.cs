@@ -47,46 +47,44 @@ public sealed class ContactSystem : RaceSystem
         if (keep >= 0 && c.Foreseen.TryGetValue(RaceContext.PairKey(keep, keep == a ? b : a), out var f) && f.Rule == rule) { since = f.SinceS; rowHeading = f.OtherHeading; }
         int row = keep == a ? b : keep == b ? a : -1;
         bool capsized = rule == Judge.Rule22 || keep < 0;
-        string detail, ruleText = Judge.RuleText[rule]; bool avoidable = false;
+        string ruleText = Judge.RuleText[rule]; bool avoidable = false;
         int penalised = keep;
-        if (capsized) detail = keep < 0 ? $"{names[a]} and {names[b]} both in the water" : $"{names[row]} capsized in the way";
+        // The verdict's parts (its text is made when read: nothing allocated here).
+        var v = new ContactVerdict { A = names[a], B = names[b], Rule = ruleText };
+        if (capsized) v = v with { Kind = keep < 0 ? VerdictKind.BothInWater : VerdictKind.CapsizedInWay, Row = keep < 0 ? null : names[row] };
         else
         {
+            v = v with { Keep = names[keep], Row = names[row] };
             var wake = c.World.Get<Wake>(c.Fleet.Entities[keep]);
             double warning = double.IsNaN(since) ? 0 : c.Time - since;
             double turned = double.IsNaN(rowHeading) ? 0 : Math.Abs(Unit.RadToDeg(Unit.WrapRadPi(s.Heading[row] - rowHeading)));
             bool tooClose = c.Time - wake.TurnStartS < Lookout.TurnTooCloseS && wake.TurnStartNearestM < Lookout.TurnTooCloseM;
-            if (!c.Rules.GiveWay) detail = "give-way logic off";
-            else if (tooClose) { avoidable = true; detail = $"keep-clear board began a tack or gybe {c.Time - wake.TurnStartS:F1} s before with a board {wake.TurnStartNearestM:F0} m away"; }
+            if (!c.Rules.GiveWay) v = v with { Kind = VerdictKind.GiveWayOff };
+            else if (tooClose) { avoidable = true; v = v with { Kind = VerdictKind.TurnedTooClose, V1 = c.Time - wake.TurnStartS, V2 = wake.TurnStartNearestM }; }
             else if (c.Rules.JudgeRoom && NoRoomGiven(c, keep, row, rule, since, out double window, out double altered))
             {
                 // Right of way acquired by its own tack or gybe within that time: rule 15 rather than 16.1.
                 var rowWake = c.World.Get<Wake>(c.Fleet.Entities[row]);
                 bool acquired = c.Time - rowWake.TurnStartS < window + AcquiredS;
                 penalised = row; ruleText = acquired ? "15" : "16.1";
-                detail = acquired
-                    ? $"{names[row]} acquired right of way (rule {Judge.RuleText[rule]}) by its tack or gybe {c.Time - rowWake.TurnStartS:F1} s before contact and did not initially give room to keep clear (rule 15): {names[row]} penalised; {names[keep]} exonerated (rule 43.1(a))"
-                    : $"{names[row]} (right of way under rule {Judge.RuleText[rule]}) changed course by {altered:F0} deg in the last {window:F1} s without giving room to keep clear (rule 16.1): {names[row]} penalised; {names[keep]} exonerated (rule 43.1(a))";
+                v = acquired ? v with { Kind = VerdictKind.AcquiredRightOfWay, V1 = c.Time - rowWake.TurnStartS }
+                    : v with { Kind = VerdictKind.NoRoomGiven, V1 = altered, V2 = window };
             }
-            else if (c.Rules.JudgeRoom && Compelled(c, keep, row, out int by, out string why))
+            else if (c.Rules.JudgeRoom && Compelled(c, keep, row, ref v, out int by))
             {
                 penalised = by; ruleText = "43.1(a)";
-                detail = $"{names[keep]} (keep clear under rule {Judge.RuleText[rule]}) was compelled by {names[by]}'s breach ({why}): {names[keep]} exonerated (rule 43.1(a)); {names[by]} penalised";
+                v = v with { Kind = VerdictKind.Compelled, By = names[by] };
             }
-            else if (turned > Judge.AlterDeg)
-                detail = c.Rules.JudgeRoom ? $"right-of-way board changed course by {turned:F0} deg since the conflict was first seen, leaving room to keep clear (not rule 16.1)"
-                    : $"right-of-way board changed course by {turned:F0} deg";
-            else if (s.Busy[keep]) detail = "keep-clear board mid-manoeuvre (begun well clear)";
-            else if (warning < c.Fleet.ReactionS[keep] + 1.0) detail = $"seen {warning:F1} s before contact";
-            else { avoidable = true; detail = $"seen {warning:F1} s before contact and not avoided"; }
-            if (rule == Judge.Rule18 && penalised == keep) detail = $"{detail}; mark-room at {MarkWhere(c, keep)}";
+            else if (turned > Judge.AlterDeg) v = v with { Kind = c.Rules.JudgeRoom ? VerdictKind.RowAlteredRoomLeft : VerdictKind.RowAltered, V1 = turned };
+            else if (s.Busy[keep]) v = v with { Kind = VerdictKind.KeepBusy };
+            else if (warning < c.Fleet.ReactionS[keep] + 1.0) v = v with { Kind = VerdictKind.SeenLate, V1 = warning };
+            else { avoidable = true; v = v with { Kind = VerdictKind.NotAvoided, V1 = warning }; }
+            if (rule == Judge.Rule18 && penalised == keep) v = v with { MarkRoomAt = MarkWhere(c, keep) };
         }
         bool penalty = !capsized && c.Rules.Penalties;
         if (penalty) c.World.Get<Penalty>(c.Fleet.Entities[penalised]).Owed++;
-        c.Log.Incidents.Add(new RaceIncident(c.Time, x, y, keep, row, ruleText, penalty, avoidable, detail, penalty ? penalised : -1));
-        string who = capsized ? $"{names[a]} and {names[b]}" : $"{names[keep]} (keep clear) and {names[row]}";
-        string pen = !penalty ? "" : penalised == keep ? "; one-turn penalty" : $"; one-turn penalty for {names[penalised]}";
-        c.Log.Add(c.Time, capsized ? a : keep, RaceEventKind.Contact, x, y, $"{who}: rule {ruleText}; {detail}{pen}");
+        c.Log.AddContact(new RaceIncident(c.Time, x, y, keep, row, ruleText, penalty, avoidable, v, penalty ? penalised : -1,
+            penalty ? names[penalised] : null), capsized ? a : keep);
     }
 
     /// <summary>A tack or gybe this long (s) before the room window counts as the way the board acquired right of way (model value: the length of a gybe).</summary>
@@ -122,9 +120,9 @@ public sealed class ContactSystem : RaceSystem
     /// (closest approach within the conflict distance in under <see cref="Lookout.LastMomentS"/> s: rule 14 made the
     /// rider swerve), or a right-of-way board that had just changed course without giving room (16.1).
     /// </summary>
-    static bool Compelled(RaceContext c, int keep, int row, out int by, out string why)
+    static bool Compelled(RaceContext c, int keep, int row, ref ContactVerdict v, out int by)
     {
-        by = -1; why = "";
+        by = -1;
         var s = c.Snapshot;
         if (!s.KeepingClear[keep]) return false;
         double window = Judge.RoomWindowS(c, keep);
@@ -137,13 +135,13 @@ public sealed class ContactSystem : RaceSystem
             var (zKeep, zRule) = Judge.Decide(c, z, s.Heading[z], keep);
             if (zKeep == z && zRule is not Judge.Rule18 && !s.KeepingClear[z] && t < Lookout.LastMomentS)
             {
-                by = z; why = $"it did not keep clear under rule {Judge.RuleText[zRule]} and was about to hit {c.Fleet.Names[keep]} (rule 14)";
+                by = z; v = v with { Why = CompelledBy.DidNotKeepClear, ByRule = Judge.RuleText[zRule] };
                 return true;
             }
             double altered = Judge.Altered(c, z, window);
             if (zKeep == keep && zRule is (10 or 11 or 12) && altered >= Judge.AlterDeg)
             {
-                by = z; why = $"it changed course by {altered:F0} deg in the last {window:F1} s without giving room to keep clear (rule 16.1)";
+                by = z; v = v with { Why = CompelledBy.ChangedCourse, V1 = altered, V2 = window };
                 return true;
             }
         }
