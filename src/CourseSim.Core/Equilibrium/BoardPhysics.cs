@@ -135,7 +135,10 @@ public sealed class BoardPhysics : IBoardModel
         if (qf < 1e-9) return new FinLoad(0, 0, false);
         double abs = Math.Abs(side);
         double cl = abs / qf;
-        if (cl > _finMaxLift)
+        // Past the fin's maximum by more than rounding: the race's trim eases the sheet to exactly the fin's capacity
+        // (RigDynamics.FinSheetCap), which lands the lift coefficient on the maximum or one bit either side of it, and
+        // that bit must not decide between the fin's leeway at its maximum lift and the saturated cap (6 deg apart).
+        if (cl > _finMaxLift * (1 + 1e-9))
         {
             double drag = qf * (cd0 + _finInduced * _finMaxLift * _finMaxLift) + (abs - _finMaxLift * qf) * (1 / HullSideLiftToDrag);
             return new FinLoad(drag, _finLeewayCap, speed >= SpinOutMinSpeed);

@@ -132,13 +132,16 @@ public class TacticBehaviourTests(Xunit.Abstractions.ITestOutputHelper output)
 {
     static string Fleet(string first, string prm) =>
         // Wind from the north, 6 kn more per km to the east (docs/wind.md: pressure_kn_per_km is the gain to the right
-        // of the wind axis looking upwind); a 1.5 km beat; six boards spread along the line. Off the line the boards
-        // sail starboard, towards the west: the less windy side, so the pressure seeker has to tack to find the wind.
+        // of the wind axis looking upwind); a 1.5 km beat; the board under test in the middle of the line and four
+        // others spread evenly either side of it, 60 m apart. Off the line the boards sail starboard, towards the west:
+        // the less windy side, so the pressure seeker has to tack to find the wind. (Each board has its own place on the
+        // line: a second board started on the seeker's spot sails on its hip all the way, and rule 13 then keeps the
+        // seeker from tacking at all, which tests the rules rather than the tactic.)
         "[wind]\nspeed_kn = 12\ndirection_deg = 0\nshift_amplitude_deg = 0\ngust_intensity = 0\npressure_kn_per_km = 6\nshadows = false\n" +
         "[race]\nfalls = false\ntime_limit_s = 1800\ncountdown_s = 40\n[course]\nkind = \"waypoints\"\norder = \"top\"\nstart_line_m = 300\n" +
         "[course.marks.top]\nx_m = 0\ny_m = 1500\n" +
-        string.Concat(Enumerable.Range(0, 6).Select(i =>
-            $"[boards.b{i}]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\nline_position = {(i == 0 ? 0.5 : (i - 0.5) / 5.0).ToString(System.Globalization.CultureInfo.InvariantCulture)}\n" +
+        string.Concat(new[] { 0.5, 0.1, 0.3, 0.7, 0.9 }.Select((pos, i) =>
+            $"[boards.b{i}]\nequipment = \"{EngineTestKit.Equip("light-66.toml")}\"\nline_position = {pos.ToString(System.Globalization.CultureInfo.InvariantCulture)}\n" +
             (i == 0 ? $"tactic = \"{first}\"\n{prm}" : "")));
 
     /// <summary>Mean x (m, east) of board 0 while it sails the beat.</summary>
