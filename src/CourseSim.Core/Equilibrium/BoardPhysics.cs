@@ -25,8 +25,15 @@ public sealed class BoardPhysics : IBoardModel
 {
     /// <summary>Smallest boom angle to the centreline the rider can sheet to, deg (common practice: boom near the centreline).</summary>
     public const double MinBoomAngleDeg = 2.0;
-    /// <summary>Below this water speed (m/s) side force the fin cannot carry goes to the rails; spin-out is not possible.</summary>
-    public const double SpinOutMinSpeed = 3.0;
+    /// <summary>
+    /// Water speed (m/s) from which side force past the fin's maximum is a spin-out: the board's drop-off speed
+    /// (<see cref="HullModel.DropOffFroude"/>), where the hull's lift carries most of the weight and the fin is left to
+    /// hold the board alone. Below it the immersed hull takes the rest on its rails at <see cref="HullSideLiftToDrag"/>
+    /// with the leeway of a stalled fin: a board off the plane slides sideways rather than spinning out (common practice:
+    /// spin-out is an overpowered board's trouble at speed; slogging, it makes leeway). A fixed 3 m/s did this before,
+    /// which left every board's upwind sheet capped by its fin at 3 m/s, short of the drive to reach the plane.
+    /// </summary>
+    public double SpinOutMinSpeed { get; }
     /// <summary>Lift-to-drag ratio of side force carried by the hull when the fin is saturated at low speed (model value).</summary>
     public const double HullSideLiftToDrag = 3.0;
     /// <summary>Height of the mast foot (deck) above the water, m.</summary>
@@ -81,6 +88,7 @@ public sealed class BoardPhysics : IBoardModel
         Rider = new RiderModel(eq.Rider);
         MassKg = eq.TotalMassKg;
         Hull = new HullModel(eq.Board, eq.TotalMassKg, WaterDensity, WaterViscosity, Air.Gravity, eq.Conditions.ChopDragAreaCm2 * 1e-4, hullTable);
+        SpinOutMinSpeed = Hull.SpeedAtFroude(HullModel.DropOffFroude);
         RigHeightM = DeckHeightM + Sail.CentreOfEffortM;
         BoomHeightM = Math.Min(RiderModel.BoomHeightM, Sail.CentreOfEffortM);
         _windage = (eq.Rider.DragAreaM2 + RigWindageM2) / Sail.AreaM2;

@@ -249,7 +249,7 @@ public sealed class RigDynamics
     /// </summary>
     public double FinSheetCap(double aws, double betaRad, double speed, double upper)
     {
-        if (speed < BoardPhysics.SpinOutMinSpeed) return upper;
+        if (speed < Physics.SpinOutMinSpeed) return upper;
         double qa = 0.5 * _rhoAir * aws * aws * SailAreaM2;
         if (qa <= 0) return upper;
         double target = FinCapacity(speed) / qa; // the largest side coefficient the fin holds

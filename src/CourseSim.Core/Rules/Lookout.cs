@@ -104,9 +104,23 @@ public sealed class Lookout : RaceSystem
         var s = c.Snapshot;
         var (sinH, cosH) = Judge.TrackSinCos(s, k, h);
         var probe = gybing ? new Judge.GapProbe(c, k, h, sinH, cosH, v) : default;
+        bool tacking = turning && !gybing;
         foreach (int j in c.Grid.Neighbours(k))
         {
             long key = RaceContext.PairKey(k, j);
+            // No tack is begun with another board's centre this close: the judge holds a contact that follows it against
+            // the tacking board (rule 13: it keeps clear from head to wind until the sail fills, nearly stopped), so the
+            // rider's lookout holds itself to the same standard. Held off, the tack waits (or the rider drops astern).
+            if (tacking && s.Live[j] && !s.Finished[j])
+            {
+                double ex = s.X[j] - s.X[k], ey = s.Y[j] - s.Y[k];
+                if (ex * ex + ey * ey < TurnTooCloseM * TurnTooCloseM)
+                {
+                    _threats.Add(j);
+                    if (firstOther < 0) { firstOther = j; firstRule = Judge.Rule13; }
+                    continue;
+                }
+            }
             var (t, d, closing) = Judge.CpaAndClosing(s, k, sinH, cosH, v, j);
             c.Work.NeighbourChecks++;
             // Faster closing, wider berth (the same rule of thumb as the passing gap).

@@ -46,7 +46,7 @@ public sealed class TrimSystem : RaceSystem
             // Stepping round the mast in a tack the sail flags and the rider stands upright: drag only (the board model's crossing rig).
             var sail = man.Kind == Manoeuvre.Tack && man.Phase == 1 ? rig.Crossing(aws, absBeta)
                 : rig.Trim(aws, absBeta, noDrive ? 0 : blk.Intent[i].Power, ref t.Sheet, noDrive ? 1 : f.SheetGain[b]);
-            if (!noDrive && v >= Equilibrium.BoardPhysics.SpinOutMinSpeed && Math.Abs(sail.Side) > rig.FinCapacity(v))
+            if (!noDrive && v >= rig.Physics.SpinOutMinSpeed && Math.Abs(sail.Side) > rig.FinCapacity(v))
             {
                 t.Sheet = rig.FinSheetCap(aws, absBeta, v, t.Sheet);
                 sail = rig.Sail(aws, absBeta, t.Sheet);
