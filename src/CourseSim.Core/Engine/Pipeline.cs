@@ -128,7 +128,12 @@ public sealed class Pipeline
                 if (timings is not null) { timings.Ticks[from] += Stopwatch.GetTimestamp() - f0; timings.Bytes[from] += GC.GetAllocatedBytesForCurrentThread() - m0; }
                 continue;
             }
-            for (int s = from; s < to; s++) { long t0 = timings is null ? 0 : Stopwatch.GetTimestamp(); Systems[s].Prepare(c); if (timings is not null) timings.Ticks[s] += Stopwatch.GetTimestamp() - t0; }
+            for (int s = from; s < to; s++)
+            {
+                long t0 = timings is null ? 0 : Stopwatch.GetTimestamp(), m0 = timings is null ? 0 : GC.GetAllocatedBytesForCurrentThread();
+                Systems[s].Prepare(c);
+                if (timings is not null) { timings.Ticks[s] += Stopwatch.GetTimestamp() - t0; timings.Bytes[s] += GC.GetAllocatedBytesForCurrentThread() - m0; }
+            }
             int size = Math.Max(1, BlockSize);
             foreach (var chunk in c.Active)
             {
