@@ -29,6 +29,9 @@ public static class StartPlanner
     public const double LineErrorExpertM = 1.0, LineErrorNoviceM = 4.0;
     /// <summary>Least distance between boards where the simulation begins, m (model value: boards spread out before the sequence).</summary>
     public const double StartApartM = 10;
+    /// <summary>Least distance along the line between two riders' spots, m (model value: about two board lengths, a
+    /// rig's width either side; riders lined up on a start line sit a few metres apart, common practice).</summary>
+    public const double SpotApartM = 5;
     /// <summary>True wind angle a rider holds while waiting below the line, deg (common practice: luffing on a close reach).</summary>
     public const double HoldTwaDeg = 60;
     /// <summary>Distance from an end of the line within which a rider making room does not bear away towards that end, m
@@ -62,6 +65,7 @@ public static class StartPlanner
         var f = c.Fleet; var w = c.World;
         double tws = Unit.KnotsToMs(c.Setup.Wind.SpeedKn);
         var placed = new List<Vec2>();
+        var spots = new List<double>(); // the spots taken, as shares of the line
         // Least shares of the line kept from its ends (drift at most 1 - inset: the clamp's bounds below never cross).
         double inset = Math.Min(0.5, EndInsetM / Math.Max(line.Length, 1e-9));
         double drift = Math.Min(1 - inset, EndDriftM / Math.Max(line.Length, 1e-9));
@@ -76,7 +80,20 @@ public static class StartPlanner
             // Holding on the start tack, a board drifts along the line towards the end that tack sails to: a spot near
             // that end is taken far enough in that the drift leaves the line still fetchable on the start tack.
             bool towardB = Vec2.Dot(dir, line.B - line.A) > 0;
-            spot = line.A + Math.Clamp(share, towardB ? inset : drift, towardB ? 1 - drift : 1 - inset) * (line.B - line.A);
+            double lo = towardB ? inset : drift, hi = towardB ? 1 - drift : 1 - inset;
+            share = Math.Clamp(share, lo, hi);
+            // A spot on top of one taken by a board placed before (the ends' clamps put every rider who wanted the end
+            // on the same point, and two riders holding on one point collide) moves along the line towards its middle,
+            // a spacing at a time, to the first free place (or the nearest while the line has none).
+            double apart = SpotApartM / Math.Max(line.Length, 1e-9), toward = share < 0.5 ? 1 : -1;
+            for (int tries = 0; tries < 40 && spots.Any(o => Math.Abs(o - share) < apart * (1 - 1e-9)); tries++)
+            {
+                double next = share + toward * apart;
+                if (next < lo || next > hi) break;
+                share = next;
+            }
+            spots.Add(share);
+            spot = line.A + share * (line.B - line.A);
             // Hold one acceleration run below the line: from rest there, the board is up to speed at the line.
             var run = StartRun.For(f.Polars[b], tws, Sailing.SignedAngle(c.Setup.Wind.DirectionDeg, h), c.Settings.Pumping);
             double back = Math.Clamp(run.DistanceToSpeedM, HoldBackMinM, HoldBackMaxM);

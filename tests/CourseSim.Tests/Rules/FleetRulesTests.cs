@@ -21,6 +21,32 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
         return (race, race.Run());
     }
 
+    /// <summary>
+    /// Twelve starts of the forty-board demo (seeds 1-12, the countdown and 30 s after the signal): contacts are rare
+    /// and seldom avoidable. Measured (3 Dec 2026, eighth session): 3 contacts in the twelve starts, 1 avoidable. Before
+    /// riders' spots were spread along the line (StartPlanner.SpotApartM) the ends' clamps gave every rider who wanted
+    /// an end one spot, two riders held on one point, and seeds 1-8 alone had 11 contacts in their starts.
+    /// </summary>
+    [Fact, Trait("Category", Slow.Category)]
+    public void TwelveStartsOfTheFortyBoardDemo()
+    {
+        int contacts = 0, avoidable = 0;
+        var lines = new List<string>();
+        var rigs = new CourseSim.Equilibrium.RigCache(); // the fleet's rig tables once, not once a start
+        for (ulong seed = 1; seed <= 12; seed++)
+        {
+            var setup = ScenarioFile.LoadRace(Path.Combine(RepoRoot.Path, "scenarios", "korrin-bay-fleet40.toml"), ["race.time_limit_s=60"], seed);
+            var res = new Race(setup, rigs.For).Run();
+            foreach (var i in res.Incidents.Where(i => i.TimeS < 30))
+            {
+                contacts++; if (i.Avoidable) avoidable++;
+                lines.Add($"seed {seed} {i.TimeS:F1} s rule {i.Rule}: {i.Detail}");
+            }
+        }
+        foreach (var l in lines) output.WriteLine(l);
+        Assert.True(contacts <= 4 && avoidable <= 2, $"{contacts} contacts ({avoidable} avoidable) in twelve starts: {string.Join("; ", lines)}");
+    }
+
     [Fact, Trait("Category", Slow.Category)]
     public void TheFortyBoardDemoRaceHasACleanStartAndAtMostThreeAvoidableContacts()
     {
@@ -34,10 +60,11 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
         // finishing mark, 837 s), none at the start. The demo race is held to at most 3, each printed, so that a worse give-way logic still fails here.
         int avoidable = res.Incidents.Count(i => i.Avoidable);
         Assert.True(avoidable <= 3, $"{avoidable} avoidable contacts: {string.Join("; ", res.Incidents.Where(i => i.Avoidable).Select(i => $"{i.TimeS:F1} s {i.Detail}"))}");
-        // The start is clean (3 Dec 2026, issue 12): before, a rider who could not fetch the line at the pin end on
-        // starboard tacked onto port 5.5 s before the signal and three starboard boards hit it (rule 10, 2.7-3.8 s).
-        // Now spots near that end are taken far enough in for the holding drift (StartPlanner.EndDriftM).
-        Assert.DoesNotContain(res.Incidents, i => i.TimeS < 30);
+        // No contact at the start that the keep-clear rider could have avoided (3 Dec 2026, issue 12): before, a rider
+        // who could not fetch the line at the pin end on starboard tacked onto port 5.5 s before the signal and three
+        // starboard boards hit it (rule 10, 2.7-3.8 s). Now spots near that end are taken far enough in for the holding
+        // drift (StartPlanner.EndDriftM). The start over many seeds: TwelveStartsOfTheFortyBoardDemo.
+        Assert.DoesNotContain(res.Incidents, i => i.TimeS < 30 && i.Avoidable);
         Assert.All(res.Incidents, i => Assert.Contains(i.Rule, new[] { "10", "11", "12", "13", "15", "16.1", "18", "22", "43.1(a)" }));
         // Riders did give way (the logic was exercised, not idle), and each penalty given was taken.
         Assert.True(res.Boards.Sum(b => b.GiveWays) > 100, $"{res.Boards.Sum(b => b.GiveWays)} give-way episodes");
