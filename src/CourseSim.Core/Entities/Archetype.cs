@@ -72,14 +72,17 @@ public sealed class Archetype
 
     internal int AddRow(Entity e)
     {
-        if (Count == Entities.Length)
-        {
-            int cap = Entities.Length * 2;
-            Array.Resize(ref Entities, cap);
-            foreach (var c in Columns) c.Grow(cap);
-        }
+        if (Count == Entities.Length) EnsureCapacity(Entities.Length * 2);
         Entities[Count] = e;
         return Count++;
+    }
+
+    /// <summary>Room for at least this many rows in every column.</summary>
+    internal void EnsureCapacity(int rows)
+    {
+        if (rows <= Entities.Length) return;
+        Array.Resize(ref Entities, rows);
+        foreach (var c in Columns) c.Grow(rows);
     }
 
     /// <summary>Removes a row by moving the last row into it; returns the entity that moved (or Null).</summary>

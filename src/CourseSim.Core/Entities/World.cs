@@ -179,6 +179,17 @@ public sealed class World
 
     public void Set<T>(Entity e, in T value) where T : struct => Get<T>(e) = value;
 
+    /// <summary>
+    /// Makes the archetype entity <paramref name="like"/> would move to on gaining T, with room for
+    /// <paramref name="rows"/> rows, so that those moves later (a race's boards finishing) allocate nothing.
+    /// </summary>
+    public void Reserve<T>(Entity like, int rows) where T : struct
+    {
+        ref var s = ref SlotOf(like);
+        CheckUnlocked();
+        ArchetypeFor(s.Archetype!.Signature.With(TypeId<T>())).EnsureCapacity(rows);
+    }
+
     public void Remove<T>(Entity e) where T : struct
     {
         ref var s = ref SlotOf(e);

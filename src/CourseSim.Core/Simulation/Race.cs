@@ -73,6 +73,8 @@ public sealed class Race
             World.Add(e, new Wake { TurnStartS = double.NegativeInfinity });
             fleet.Entities[b] = e;
         }
+        // Room up front in the archetype finished boards move to (tagged Done), so finishing allocates nothing in the step.
+        if (fleet.Count > 0) World.Reserve<Done>(fleet.Entities[0], fleet.Count);
         StartPlanner.PlaceFleet(_c);
         _decide = new DecideSystem(_c, tactics ?? TacticRegistry.With(setup.TacticAssemblies));
         Pipeline = new Pipeline(

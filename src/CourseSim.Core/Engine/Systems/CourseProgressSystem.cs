@@ -70,7 +70,7 @@ public sealed class CourseProgressSystem : RaceSystem
                         {
                             s.State = RaceState.Finished; s.FinishedS = at;
                             c.Log.Add(at, b, RaceEventKind.Finished, p1.X, p1.Y, "");
-                            c.Commands.Add(e, new Done());
+                            c.Commands.AddTag<Done>(e);
                             c.Finished++;
                         }
                         else c.Log.Add(t1, b, RaceEventKind.Rounded, p1.X, p1.Y, step.Name);
