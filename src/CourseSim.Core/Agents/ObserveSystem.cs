@@ -47,7 +47,7 @@ public sealed class Lookabout
     // The boards in sight come from a hash of sight-range cells built from the step snapshot (the 3 x 3 cells round a
     // rider hold everything within sight; cells a little larger than the range so no rounding of a cell index can leave
     // a board at the very edge out): O(boards in sight) a decision, not a scan of the fleet.
-    readonly CellHash _sight = new(SightRangeM * 1.01);
+    readonly CellHash _sight;
     bool _stale = true;
     // The boards in sight, sorted by (distance, rank): a total order, so any correct sort gives the same list. The
     // distances' bits (non-negative doubles order as their bits do) are sorted with the ranks alongside, then runs of
@@ -58,6 +58,7 @@ public sealed class Lookabout
     public Lookabout(Fleet fleet)
     {
         _rank = fleet.Rank;
+        _sight = new(SightRangeM * 1.01, fleet.Count); // sized now: no look allocates
         _seen = new List<SeenBoard>(Math.Max(4, fleet.Count)); // room for the whole fleet: a look never grows it
         _key = new long[Math.Max(1, fleet.Count)]; _nearRank = new int[Math.Max(1, fleet.Count)];
     }

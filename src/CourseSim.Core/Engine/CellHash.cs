@@ -21,7 +21,27 @@ public sealed class CellHash
     public int CellJ(int b) => _cj[b];
     int _mask;
 
-    public CellHash(double cellM) { _cellM = cellM; }
+    /// <summary>Cells of <paramref name="cellM"/>, with room for <paramref name="boards"/> boards made now (so no step allocates).</summary>
+    public CellHash(double cellM, int boards = 0)
+    {
+        _cellM = cellM;
+        if (boards > 0) Size(boards);
+    }
+
+    static int Buckets(int n)
+    {
+        int buckets = 64;
+        while (buckets < 2 * n) buckets *= 2;
+        return buckets;
+    }
+
+    /// <summary>Room for n boards (grown only, never shrunk).</summary>
+    void Size(int n)
+    {
+        int buckets = Buckets(n);
+        if (_bucketStart.Length < buckets + 1) { _bucketStart = new int[buckets + 1]; _fill = new int[buckets]; }
+        if (_sorted.Length < n) { _sorted = new Entry[n]; _ci = new int[n]; _cj = new int[n]; }
+    }
 
     public double CellM => _cellM;
 
@@ -33,12 +53,11 @@ public sealed class CellHash
     public void Build(StepSnapshot s, int[] byRank)
     {
         int n = byRank.Length;
-        int buckets = 64;
-        while (buckets < 2 * n) buckets *= 2;
+        int buckets = Buckets(n);
         _mask = buckets - 1;
-        if (_bucketStart.Length < buckets + 1) { _bucketStart = new int[buckets + 1]; _fill = new int[buckets]; }
-        else Array.Clear(_bucketStart, 0, buckets + 1);
-        if (_sorted.Length < n) { _sorted = new Entry[n]; _ci = new int[n]; _cj = new int[n]; }
+        bool fresh = _bucketStart.Length < buckets + 1;
+        Size(n);
+        if (!fresh) Array.Clear(_bucketStart, 0, buckets + 1);
         for (int r = 0; r < n; r++)
         {
             int b = byRank[r];

@@ -42,7 +42,7 @@ public sealed class NeighbourGrid
     public NeighbourGrid(int boards, double rangeM)
     {
         _n = boards; RangeM = rangeM; CellM = rangeM;
-        _cells = new CellHash(rangeM);
+        _cells = new CellHash(rangeM, boards);
         NearestM = new double[boards];
         _adjStart = new int[boards]; _adjLen = new int[boards]; _rank = new int[boards];
         // Room up front for a bunched start (the 40-board demo's countdown reached about 25 pairs a board), so the step

@@ -64,8 +64,9 @@ public sealed class RaceContext
         SenseEvery = EveryOf(setup.Race.StepHz, setup.Race.WindHz);
         LookoutEvery = EveryOf(setup.Race.StepHz, setup.Rules.LookoutHz);
         Wind = new WindField(setup.Wind, setup.Race.Seed);
-        Shadow = new WindShadow(setup.Wind);
         int n = fleet.Count;
+        Shadow = new WindShadow(setup.Wind);
+        Shadow.Reserve(n);
         Snapshot = new StepSnapshot(n);
         Grid = new NeighbourGrid(n, RulesRangeM);
         // Room up front (capacity changes no order: entries are kept in insertion order), so the step does not grow them.

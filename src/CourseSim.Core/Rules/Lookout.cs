@@ -70,7 +70,7 @@ public sealed class Lookout : RaceSystem
     public override string Reads => "Helm, Penalty, Pose (heading); snapshot; grid (neighbours, nearest); lookout accelerations";
     public override string Writes => "GiveWay, Wake (heading samples), own foreseen conflicts, events";
 
-    readonly List<int> _threats = new();
+    readonly List<int> _threats = new(NeighbourGrid.MaxNeighbours); // a rider's neighbours at most: never grown in the step
 
     /// <summary>Interval between the heading samples kept for the judge's rule 16.1, s.</summary>
     public const double HeadingSampleS = 1;
@@ -104,13 +104,17 @@ public sealed class Lookout : RaceSystem
         var s = c.Snapshot;
         var (sinH, cosH) = Judge.TrackSinCos(s, k, h);
         var probe = gybing ? new Judge.GapProbe(c, k, h, sinH, cosH, v) : default;
-        bool tacking = turning && !gybing;
+        // Before the signal only: boards there are slow or stopped, a tack from a standstill takes seconds, and a board
+        // alongside may sheet in and go at any moment (the start's "go"), which no prediction from its present speed
+        // foresees. Racing, the predicted approach below vets a tack: a fixed distance there could pin a board sailing
+        // in company to its tack for as long as the company lasts.
+        bool tacking = turning && !gybing && c.Time < 0;
         foreach (int j in c.Grid.Neighbours(k))
         {
             long key = RaceContext.PairKey(k, j);
-            // No tack is begun with another board's centre this close: the judge holds a contact that follows it against
-            // the tacking board (rule 13: it keeps clear from head to wind until the sail fills, nearly stopped), so the
-            // rider's lookout holds itself to the same standard. Held off, the tack waits (or the rider drops astern).
+            // No tack is begun before the signal with another board's centre this close: the judge holds a contact that
+            // follows it against the tacking board (rule 13: it keeps clear from head to wind until the sail fills,
+            // nearly stopped), so the rider's lookout holds itself to the same standard. Held off, the tack waits.
             if (tacking && s.Live[j] && !s.Finished[j])
             {
                 double ex = s.X[j] - s.X[k], ey = s.Y[j] - s.Y[k];

@@ -53,21 +53,35 @@ public sealed class WindShadow
 
     static int Hash(int i, int j, int mask) => (int)(((uint)i * 0x9E3779B1u) ^ ((uint)j * 0x85EBCA77u)) & mask;
 
-    /// <summary>Rebuilds the hash for this step's sources. Allocates only when the fleet grows.</summary>
+    /// <summary>Sizes the hash for this many sources now (a race does so when it is made), so no step allocates.</summary>
+    public void Reserve(int count)
+    {
+        if (_src.Length < count)
+        {
+            _src = new ShadowSource[count]; _dx = new double[count]; _dy = new double[count];
+            _len = new double[count]; _packed = new Packed[count];
+        }
+        int buckets = Buckets(count);
+        if (_bucketStart.Length < buckets + 1) { _bucketStart = new int[buckets + 1]; _fill = new int[buckets]; }
+    }
+
+    static int Buckets(int count)
+    {
+        int buckets = 64;
+        while (buckets < 2 * count) buckets *= 2;
+        return buckets;
+    }
+
+    /// <summary>Rebuilds the hash for this step's sources. Allocates only when the fleet grows past what was reserved.</summary>
     public void Build(ReadOnlySpan<ShadowSource> sources)
     {
         _count = sources.Length;
-        if (_src.Length < _count)
-        {
-            _src = new ShadowSource[_count]; _dx = new double[_count]; _dy = new double[_count];
-            _len = new double[_count]; _packed = new Packed[_count];
-        }
         if (_count == 0) return;
-        int buckets = 64;
-        while (buckets < 2 * _count) buckets *= 2;
+        int buckets = Buckets(_count);
+        bool fresh = _bucketStart.Length < buckets + 1;
+        Reserve(_count);
         _mask = buckets - 1;
-        if (_bucketStart.Length < buckets + 1) { _bucketStart = new int[buckets + 1]; _fill = new int[buckets]; }
-        else { Array.Clear(_bucketStart, 0, buckets + 1); Array.Clear(_fill, 0, buckets); }
+        if (!fresh) { Array.Clear(_bucketStart, 0, buckets + 1); Array.Clear(_fill, 0, buckets); }
         double maxLen = 1;
         for (int i = 0; i < _count; i++)
         {
