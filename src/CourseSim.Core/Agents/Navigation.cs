@@ -81,7 +81,11 @@ public static class Navigation
         var sideDir = s.Side == Rounding.Port ? new Vec2(din.Y, -din.X) : new Vec2(-din.Y, din.X);
         var rel = p - mark;
         bool correctSide = Vec2.Dot(rel, sideDir) > 0;
-        bool reached = Vec2.Dot(rel, din) >= -RoundingOffsetM;
+        // The turn for the exit begins half the offset short of abeam (model value). From the full offset short of it a
+        // board at planing speed cut across the mark's wrong side (the 12-board demo, seeds 1-10: 13 wrong-side passes,
+        // 5 of them at the mark after the run at about 20 kn); from abeam, boards turned late into others at the mark
+        // (contacts 6 -> 11, 5 of them a turn begun too close). Half the offset: 5 wrong-side passes and 5 contacts.
+        bool reached = Vec2.Dot(rel, din) >= -0.5 * RoundingOffsetM;
         if (!reached || !correctSide) return mark + RoundingOffsetM * sideDir;
         var exit = mark + RoundingOffsetM * course.Outside(step);
         if ((exit - p).Length > 4 || step + 1 >= course.Steps.Count) return exit;

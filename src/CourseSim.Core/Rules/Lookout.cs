@@ -293,7 +293,8 @@ public sealed class Lookout : RaceSystem
                 // alone do not beat the best so far is not vetted at all, and the vetting stops as soon as the shortfall
                 // found so far puts it out of reach (the same choice as scoring every candidate in full: the sums are
                 // monotone in the shortfall term, so the same bits).
-                double lead = (tack ? 0 : Math.Abs(off)) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (tack ? TackAwayCharge : 0);
+                double lead = (tack ? 0 : Math.Abs(off)) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (tack ? TackAwayCharge : 0)
+                    + (WrongHand(c, k, h) ? WrongHandCharge : 0);
                 double duck = oi == 17 ? DuckPreference : 0;
                 bool kept = gw.On && (slow == 1) == (gw.Power == 0) && Math.Abs(Unit.WrapRadPi(h - gw.Heading)) < Unit.DegToRad(6);
                 if (Score(lead, duck, kept, double.PositiveInfinity) >= bestScore) continue;
@@ -317,6 +318,33 @@ public sealed class Lookout : RaceSystem
                 if (score < bestScore) { bestScore = score; bestH = h; bestP = slow == 1 ? 0 : 1; }
             }
         return (bestH, bestP);
+    }
+
+    /// <summary>
+    /// Charge (degrees of turn) on a way of keeping clear that would leave the next mark on the wrong hand (model value:
+    /// more than any turn, less than a shortfall of clearance, so a rider keeps clear of a board first and of the
+    /// mark's wrong side next). Without it, riders steering round a board capsized at the leeward mark passed the mark
+    /// on the wrong side and had to go back round it (RRS 28; the 12-board demo, seed 5).
+    /// </summary>
+    public const double WrongHandCharge = 150;
+    /// <summary>How far ahead a mark is looked at for the wrong-hand charge, m (model value: a few seconds at speed).</summary>
+    public const double WrongHandLookM = 40;
+
+    /// <summary>Whether the course h (rad, a compass bearing) from board k's position leaves its next mark, ahead within
+    /// <see cref="WrongHandLookM"/>, on the wrong hand (or passes within a metre of it).</summary>
+    static bool WrongHand(RaceContext c, int k, double h)
+    {
+        var s = c.Snapshot;
+        int step = s.NextStep[k];
+        var steps = c.Course.Steps;
+        if (step >= steps.Count || steps[step].Kind != Courses.StepKind.Mark) return false;
+        var mark = steps[step].Target;
+        double rx = mark.X - s.X[k], ry = mark.Y - s.Y[k], d2 = rx * rx + ry * ry;
+        if (d2 > WrongHandLookM * WrongHandLookM) return false;
+        var (sn, cs) = Math.SinCos(h);
+        if (rx * sn + ry * cs <= 0) return false; // the mark is not ahead
+        double cross = sn * ry - cs * rx; // positive: the mark lies to port of the course
+        return (cross > 0) != (steps[step].Side == Courses.Rounding.Port) || Math.Abs(cross) < 1;
     }
 
     /// <summary>A candidate's score: its charges, the shortfall of clearance (worst, m, counted only below zero), the duck's preference and the bonus for the way already chosen.</summary>
