@@ -21,13 +21,12 @@ public readonly struct RaceIncident
     public int Penalised { get; }
     /// <summary>The verdict's parts (<see cref="Detail"/> is its text).</summary>
     public ContactVerdict Verdict { get; }
-    readonly string? _penalisedName;
 
     public RaceIncident(double timeS, double x, double y, int keepClear, int rightOfWay, string rule, bool penalty, bool avoidable,
-        ContactVerdict verdict, int penalised = -1, string? penalisedName = null)
+        ContactVerdict verdict, int penalised = -1)
     {
         TimeS = timeS; X = x; Y = y; KeepClear = keepClear; RightOfWay = rightOfWay; Rule = rule; Penalty = penalty; Avoidable = avoidable;
-        Verdict = verdict; Penalised = penalised; _penalisedName = penalisedName;
+        Verdict = verdict; Penalised = penalised;
     }
 
     /// <summary>The verdict in words (made on each read).</summary>
@@ -40,7 +39,10 @@ public readonly struct RaceIncident
     public string EventText()
     {
         string who = Capsized ? $"{Verdict.A} and {Verdict.B}" : $"{Verdict.Keep} (keep clear) and {Verdict.Row}";
-        string pen = !Penalty ? "" : Penalised == KeepClear ? "; one-turn penalty" : $"; one-turn penalty for {_penalisedName}";
+        // The penalised board is one the verdict names: the keep-clear board, the right-of-way one (rules 15, 16.1) or the
+        // third board that compelled (43.1(a)).
+        string pen = !Penalty ? "" : Penalised == KeepClear ? "; one-turn penalty"
+            : $"; one-turn penalty for {(Penalised == RightOfWay ? Verdict.Row : Verdict.By)}";
         return $"{who}: rule {Rule}; {Detail}{pen}";
     }
 

@@ -83,8 +83,7 @@ public sealed class ContactSystem : RaceSystem
         }
         bool penalty = !capsized && c.Rules.Penalties;
         if (penalty) c.World.Get<Penalty>(c.Fleet.Entities[penalised]).Owed++;
-        c.Log.AddContact(new RaceIncident(c.Time, x, y, keep, row, ruleText, penalty, avoidable, v, penalty ? penalised : -1,
-            penalty ? names[penalised] : null), capsized ? a : keep);
+        c.Log.AddContact(new RaceIncident(c.Time, x, y, keep, row, ruleText, penalty, avoidable, v, penalty ? penalised : -1), capsized ? a : keep);
     }
 
     /// <summary>A tack or gybe this long (s) before the room window counts as the way the board acquired right of way (model value: the length of a gybe).</summary>
