@@ -119,17 +119,7 @@ public static class Navigation
     /// </summary>
     public static double MarkSideGuard(Course course, RigPolar rig, int step, Vec2 p, double heading, double tws, double fromDeg, int tack)
     {
-        if (step >= course.Steps.Count) return heading;
-        var s = course.Steps[step];
-        if (s.Kind != StepKind.Mark) return heading;
-        var rel = s.Target - p;
-        double dist = rel.Length;
-        if (dist > MarkSideLookM || dist < 3) return heading;
-        var dir = Vec2.FromBearing(Unit.RadToDeg(heading));
-        if (Vec2.Dot(rel, dir) <= 0) return heading; // the mark is not ahead
-        double cross = Vec2.Cross(dir, rel); // positive: the mark lies to port of the course
-        bool correct = (cross > 0) == (s.Side == Rounding.Port) && Math.Abs(cross) >= 3;
-        if (correct) return heading;
+        if (!course.LeavesOnWrongHand(step, p, Vec2.FromBearing(Unit.RadToDeg(heading)), 3, MarkSideLookM, 3)) return heading;
         double twa = Math.Abs(Sailing.SignedAngle(fromDeg, heading));
         int side = Math.Sign(Sailing.SignedAngle(fromDeg, heading)); if (side == 0) side = tack;
         // Beating only: running, the rider already steers straight at the aim point within CloseRunM of it.

@@ -91,6 +91,23 @@ public sealed class Course
         }
     }
 
+    /// <summary>
+    /// Whether a course from p along <paramref name="dir"/> (a unit vector) leaves the mark of step i, ahead and between
+    /// <paramref name="minM"/> and <paramref name="lookM"/> away, on the wrong hand, or passes it closer abeam than
+    /// <paramref name="clearM"/>. False for a gate, a finish, or past the last step. Riders steering and riders keeping
+    /// clear of other boards both ask this (Navigation.MarkSideGuard, Lookout's charge on a way of keeping clear).
+    /// </summary>
+    public bool LeavesOnWrongHand(int i, Vec2 p, Vec2 dir, double minM, double lookM, double clearM)
+    {
+        if (i >= Steps.Count || Steps[i].Kind != StepKind.Mark) return false;
+        var rel = Steps[i].Target - p;
+        double dist = rel.Length;
+        if (dist > lookM || dist < minM) return false;
+        if (Vec2.Dot(rel, dir) <= 0) return false; // the mark is not ahead
+        double cross = Vec2.Cross(dir, rel); // positive: the mark lies to port of the course
+        return (cross > 0) != (Steps[i].Side == Rounding.Port) || Math.Abs(cross) < clearM;
+    }
+
     /// <summary>Direction of the leg leading to step i.</summary>
     public Vec2 Incoming(int i) => _incoming[i];
     /// <summary>Unit vector from the mark of step i to the outside of the turn.</summary>

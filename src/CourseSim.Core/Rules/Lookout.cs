@@ -294,7 +294,7 @@ public sealed class Lookout : RaceSystem
                 // found so far puts it out of reach (the same choice as scoring every candidate in full: the sums are
                 // monotone in the shortfall term, so the same bits).
                 double lead = (tack ? 0 : Math.Abs(off)) + (slow == 1 ? 25 : 0) + (gybe ? GybeAwayCharge : 0) + (tack ? TackAwayCharge : 0)
-                    + (WrongHand(c, k, h) ? WrongHandCharge : 0);
+                    + (c.Course.LeavesOnWrongHand(s.NextStep[k], new Courses.Vec2(s.X[k], s.Y[k]), Courses.Vec2.Of(Math.SinCos(h)), 0, WrongHandLookM, 1) ? WrongHandCharge : 0);
                 double duck = oi == 17 ? DuckPreference : 0;
                 bool kept = gw.On && (slow == 1) == (gw.Power == 0) && Math.Abs(Unit.WrapRadPi(h - gw.Heading)) < Unit.DegToRad(6);
                 if (Score(lead, duck, kept, double.PositiveInfinity) >= bestScore) continue;
@@ -329,23 +329,6 @@ public sealed class Lookout : RaceSystem
     public const double WrongHandCharge = 150;
     /// <summary>How far ahead a mark is looked at for the wrong-hand charge, m (model value: a few seconds at speed).</summary>
     public const double WrongHandLookM = 40;
-
-    /// <summary>Whether the course h (rad, a compass bearing) from board k's position leaves its next mark, ahead within
-    /// <see cref="WrongHandLookM"/>, on the wrong hand (or passes within a metre of it).</summary>
-    static bool WrongHand(RaceContext c, int k, double h)
-    {
-        var s = c.Snapshot;
-        int step = s.NextStep[k];
-        var steps = c.Course.Steps;
-        if (step >= steps.Count || steps[step].Kind != Courses.StepKind.Mark) return false;
-        var mark = steps[step].Target;
-        double rx = mark.X - s.X[k], ry = mark.Y - s.Y[k], d2 = rx * rx + ry * ry;
-        if (d2 > WrongHandLookM * WrongHandLookM) return false;
-        var (sn, cs) = Math.SinCos(h);
-        if (rx * sn + ry * cs <= 0) return false; // the mark is not ahead
-        double cross = sn * ry - cs * rx; // positive: the mark lies to port of the course
-        return (cross > 0) != (steps[step].Side == Courses.Rounding.Port) || Math.Abs(cross) < 1;
-    }
 
     /// <summary>A candidate's score: its charges, the shortfall of clearance (worst, m, counted only below zero), the duck's preference and the bonus for the way already chosen.</summary>
     static double Score(double lead, double duck, bool kept, double worst)
