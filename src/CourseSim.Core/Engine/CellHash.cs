@@ -1,3 +1,5 @@
+using CourseSim.Units;
+
 namespace CourseSim.Engine;
 
 /// <summary>
@@ -28,24 +30,16 @@ public sealed class CellHash
         if (boards > 0) Size(boards);
     }
 
-    static int Buckets(int n)
-    {
-        int buckets = 64;
-        while (buckets < 2 * n) buckets *= 2;
-        return buckets;
-    }
-
     /// <summary>Room for n boards (grown only, never shrunk).</summary>
     void Size(int n)
     {
-        int buckets = Buckets(n);
+        int buckets = CellBuckets.CountFor(n);
         if (_bucketStart.Length < buckets + 1) { _bucketStart = new int[buckets + 1]; _fill = new int[buckets]; }
         if (_sorted.Length < n) { _sorted = new Entry[n]; _ci = new int[n]; _cj = new int[n]; }
     }
 
     public double CellM => _cellM;
 
-    public static int Hash(int i, int j, int mask) => (int)(((uint)i * 0x9E3779B1u) ^ ((uint)j * 0x85EBCA77u)) & mask;
     /// <summary>The cell index of a coordinate (m).</summary>
     public int Cell(double v) => (int)Math.Floor(Math.Clamp(v / _cellM, -1e9, 1e9));
 
@@ -53,31 +47,30 @@ public sealed class CellHash
     public void Build(StepSnapshot s, int[] byRank)
     {
         int n = byRank.Length;
-        int buckets = Buckets(n);
+        int buckets = CellBuckets.CountFor(n);
         _mask = buckets - 1;
-        bool fresh = _bucketStart.Length < buckets + 1;
         Size(n);
-        if (!fresh) Array.Clear(_bucketStart, 0, buckets + 1);
+        Array.Clear(_bucketStart, 0, buckets + 1);
         for (int r = 0; r < n; r++)
         {
             int b = byRank[r];
             if (!s.Live[b]) continue;
             _ci[b] = Cell(s.X[b]); _cj[b] = Cell(s.Y[b]);
-            _bucketStart[Hash(_ci[b], _cj[b], _mask) + 1]++;
+            _bucketStart[CellBuckets.Hash(_ci[b], _cj[b], _mask) + 1]++;
         }
         for (int k = 0; k < buckets; k++) _bucketStart[k + 1] += _bucketStart[k];
         Array.Copy(_bucketStart, _fill, buckets);
         for (int r = 0; r < n; r++)
         {
             int b = byRank[r];
-            if (s.Live[b]) _sorted[_fill[Hash(_ci[b], _cj[b], _mask)]++] = new Entry(b, r, _ci[b], _cj[b], s.X[b], s.Y[b]);
+            if (s.Live[b]) _sorted[_fill[CellBuckets.Hash(_ci[b], _cj[b], _mask)]++] = new Entry(b, r, _ci[b], _cj[b], s.X[b], s.Y[b]);
         }
     }
 
     /// <summary>The entries of the bucket holding cell (ci, cj): the caller skips those whose cell is another.</summary>
     public ReadOnlySpan<Entry> Bucket(int ci, int cj)
     {
-        int h = Hash(ci, cj, _mask);
+        int h = CellBuckets.Hash(ci, cj, _mask);
         return new(_sorted, _bucketStart[h], _bucketStart[h + 1] - _bucketStart[h]);
     }
 }

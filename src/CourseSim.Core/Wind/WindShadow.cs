@@ -51,8 +51,6 @@ public sealed class WindShadow
         return n * mastHeightM;
     }
 
-    static int Hash(int i, int j, int mask) => (int)(((uint)i * 0x9E3779B1u) ^ ((uint)j * 0x85EBCA77u)) & mask;
-
     /// <summary>Sizes the hash for this many sources now (a race does so when it is made), so no step allocates.</summary>
     public void Reserve(int count)
     {
@@ -61,15 +59,8 @@ public sealed class WindShadow
             _src = new ShadowSource[count]; _dx = new double[count]; _dy = new double[count];
             _len = new double[count]; _packed = new Packed[count];
         }
-        int buckets = Buckets(count);
+        int buckets = CellBuckets.CountFor(count);
         if (_bucketStart.Length < buckets + 1) { _bucketStart = new int[buckets + 1]; _fill = new int[buckets]; }
-    }
-
-    static int Buckets(int count)
-    {
-        int buckets = 64;
-        while (buckets < 2 * count) buckets *= 2;
-        return buckets;
     }
 
     /// <summary>Rebuilds the hash for this step's sources. Allocates only when the fleet grows past what was reserved.</summary>
@@ -77,11 +68,10 @@ public sealed class WindShadow
     {
         _count = sources.Length;
         if (_count == 0) return;
-        int buckets = Buckets(_count);
-        bool fresh = _bucketStart.Length < buckets + 1;
+        int buckets = CellBuckets.CountFor(_count);
         Reserve(_count);
         _mask = buckets - 1;
-        if (!fresh) { Array.Clear(_bucketStart, 0, buckets + 1); Array.Clear(_fill, 0, buckets); }
+        Array.Clear(_bucketStart, 0, buckets + 1); Array.Clear(_fill, 0, buckets);
         double maxLen = 1;
         for (int i = 0; i < _count; i++)
         {
@@ -98,12 +88,12 @@ public sealed class WindShadow
         }
         _cell = maxLen;
         _invCell = 1 / maxLen;
-        for (int i = 0; i < _count; i++) _bucketStart[Hash(CellIndex(_src[i].X), CellIndex(_src[i].Y), _mask) + 1]++;
+        for (int i = 0; i < _count; i++) _bucketStart[CellBuckets.Hash(CellIndex(_src[i].X), CellIndex(_src[i].Y), _mask) + 1]++;
         for (int b = 0; b < buckets; b++) _bucketStart[b + 1] += _bucketStart[b];
         for (int i = 0; i < _count; i++)
         {
             int ci = CellIndex(_src[i].X), cj = CellIndex(_src[i].Y);
-            int b = Hash(ci, cj, _mask);
+            int b = CellBuckets.Hash(ci, cj, _mask);
             _packed[_bucketStart[b] + _fill[b]++] = new Packed
             {
                 X = _src[i].X, Y = _src[i].Y, Dx = _dx[i], Dy = _dy[i], Len = _len[i], InvLen = 1 / _len[i], FromDeg = _src[i].ApparentFromDeg, Index = i, Ci = ci, Cj = cj,
@@ -122,7 +112,7 @@ public sealed class WindShadow
         for (int j = cj - 1; j <= cj + 1; j++)
             for (int i = ci - 1; i <= ci + 1; i++)
             {
-                int b = Hash(i, j, _mask);
+                int b = CellBuckets.Hash(i, j, _mask);
                 for (int k = _bucketStart[b], end = _bucketStart[b + 1]; k < end; k++)
                 {
                     ref readonly var p = ref _packed[k];
