@@ -173,8 +173,6 @@ public sealed class Race
         ref var wake = ref World.Get<Wake>(e);
         wake.PrevX = x; wake.PrevY = y; wake.HistN = 0;
         _c.Snapshot.Capture(_c.All, Time);
-        // The racing boards' query lists its archetypes on first use: done here, not in the first step.
-        foreach (var _ in _c.Active) { }
     }
 
     /// <summary>Share of the race done (0..1): by the clock against an estimate, or by boards finished.</summary>
