@@ -48,8 +48,8 @@ public sealed class RaceContext
 
     /// <summary>The rules' memory of conflicts a rider has seen as theirs to keep clear of: key (keep-clear board, other).</summary>
     public ForeseenConflicts Foreseen { get; internal set; }
-    /// <summary>Pairs in contact now (a contact is judged once, when it begins).</summary>
-    public HashSet<long> Touching { get; internal set; }
+    /// <summary>Pairs in contact now, row the board of the lower index (a contact is judged once, when it begins).</summary>
+    public PairRows<bool> Touching { get; internal set; }
     /// <summary>Each board's speed at the last lookout (for the acceleration a rider reads), m/s.</summary>
     public double[] LookoutSpeed { get; }
     /// <summary>Each board's acceleration as read at the last lookout, m/s2.</summary>
@@ -71,7 +71,7 @@ public sealed class RaceContext
         Grid = new NeighbourGrid(n, RulesRangeM);
         // Room up front (capacity changes no order: entries are kept in insertion order), so the step does not grow them.
         Foreseen = new(n);
-        Touching = new(Math.Max(1, n), PairKeys.Instance);
+        Touching = new(n, 4);
         Log = new RaceLog(n);
         Recorder = new Recorder(n, setup.Race.RecordIntervalS, -setup.Race.CountdownS);
         FallRng = new CounterRng(setup.Race.Seed, CounterRng.Streams.Falls);
@@ -102,21 +102,6 @@ public sealed class RaceContext
 
     /// <summary>A key for an ordered pair of boards (a's view of b).</summary>
     public static long PairKey(int a, int b) => ((long)a << 32) | (uint)b;
-    /// <summary>A key for an unordered pair.</summary>
-    public static long UnorderedKey(int a, int b) => a < b ? PairKey(a, b) : PairKey(b, a);
-}
-
-/// <summary>
-/// Hashing for pair keys (<see cref="RaceContext.PairKey"/>): the default hash of a long folds its halves together
-/// (a xor b for a pair), so in a fleet of N boards the pairs fall into about N hash values and a look-up walks a chain
-/// of many pairs (at 2,000 boards the lookout spent three quarters of the step there). A multiplicative (Fibonacci) hash
-/// spreads them. Neither the pair sets nor the foreseen conflicts are ever enumerated, so the hash changes no result.
-/// </summary>
-public sealed class PairKeys : IEqualityComparer<long>
-{
-    public static readonly PairKeys Instance = new();
-    public bool Equals(long x, long y) => x == y;
-    public int GetHashCode(long key) => (int)(((ulong)key * 0x9E3779B97F4A7C15UL) >> 32);
 }
 
 /// <summary>A conflict a rider has seen as theirs to keep clear of: since when (s), under which rule, the other's heading then (rad).</summary>

@@ -25,14 +25,14 @@ public sealed class ContactSystem : RaceSystem
         {
             if (!s.Live[a] || !s.Live[b]) continue;
             double cd = Math.Sqrt((s.X[a] - s.X[b]) * (s.X[a] - s.X[b]) + (s.Y[a] - s.Y[b]) * (s.Y[a] - s.Y[b]));
-            long key = RaceContext.UnorderedKey(a, b);
-            // (Most close pairs are not touching: the set is only looked into when it holds any.)
-            if (cd > Engine.Systems.SnapshotSystem.ContactCheckM) { if (c.Touching.Count != 0) c.Touching.Remove(key); continue; }
+            int lo = Math.Min(a, b), hi = Math.Max(a, b);
+            // (Most close pairs are not touching: an empty row is answered by its length.)
+            if (cd > Engine.Systems.SnapshotSystem.ContactCheckM) { c.Touching.Remove(lo, hi); continue; }
             var ra = new RuleBoard(s.X[a], s.Y[a], Unit.RadToDeg(s.Heading[a]), c.Fleet.LengthM[a]);
             var rb = new RuleBoard(s.X[b], s.Y[b], Unit.RadToDeg(s.Heading[b]), c.Fleet.LengthM[b]);
             double hd = RightOfWay.HullDistance(ra, rb);
-            if (hd >= clearance) { if (hd > clearance + 0.5 && c.Touching.Count != 0) c.Touching.Remove(key); continue; }
-            if (!c.Touching.Add(key)) continue;
+            if (hd >= clearance) { if (hd > clearance + 0.5) c.Touching.Remove(lo, hi); continue; }
+            if (!c.Touching.Add(lo, hi, true)) continue;
             Judged(c, a, b, 0.5 * (s.X[a] + s.X[b]), 0.5 * (s.Y[a] + s.Y[b]));
         }
     }

@@ -15,7 +15,7 @@ public sealed class RaceCheckpoint
     Entities.World _world = null!;
     double _time, _nextRecord; long _step; int _finished; bool _over;
     StepSnapshot _snapshot = null!; NeighbourGrid _grid = null!;
-    ForeseenConflicts _foreseen = null!; HashSet<long> _touching = null!;
+    ForeseenConflicts _foreseen = null!; PairRows<bool> _touching = null!;
     double[] _lookSpeed = null!, _lookAccel = null!;
     Wind.ShadowSource[] _sources = null!;
     RaceLog _log = null!; Recorder _recorder = null!;
@@ -28,7 +28,7 @@ public sealed class RaceCheckpoint
         {
             _world = c.World.Clone(), _time = c.Time, _nextRecord = c.NextRecordS, _step = c.StepIndex, _finished = c.Finished, _over = over,
             _snapshot = new StepSnapshot(c.Fleet.Count), _grid = new NeighbourGrid(c.Fleet.Count, c.Grid.RangeM),
-            _foreseen = new(c.Foreseen), _touching = new(c.Touching, PairKeys.Instance),
+            _foreseen = new(c.Foreseen), _touching = new(c.Touching),
             _lookSpeed = (double[])c.LookoutSpeed.Clone(), _lookAccel = (double[])c.LookoutAccel.Clone(),
             _sources = (Wind.ShadowSource[])c.ShadowSources.Clone(),
             _log = c.Log.Copy(), _recorder = c.Recorder.Copy(), _tactics = decide.SaveState(), _boards = c.Fleet.Count,
@@ -43,7 +43,7 @@ public sealed class RaceCheckpoint
         c.World.CopyFrom(_world);
         c.Time = _time; c.NextRecordS = _nextRecord; c.StepIndex = _step; c.Finished = _finished;
         c.Snapshot.CopyFrom(_snapshot); c.Grid.CopyFrom(_grid);
-        c.Foreseen = new(_foreseen); c.Touching = new(_touching, PairKeys.Instance);
+        c.Foreseen = new(_foreseen); c.Touching = new(_touching);
         Array.Copy(_lookSpeed, c.LookoutSpeed, _boards); Array.Copy(_lookAccel, c.LookoutAccel, _boards);
         Array.Copy(_sources, c.ShadowSources, _boards);
         // The shadows as they were built from these sources (they are rebuilt only at the start of a sensing cycle).
