@@ -68,6 +68,16 @@ public sealed class DecideSystem : RaceSystem
         if (!h.HasPending || newSide) h.PendAt = c.Time + c.Fleet.ReactionS[b];
     }
 
+    /// <summary>How long a returning rider holds on beside a board that keeps them from bearing away before sheeting out to let it by, s (model value).</summary>
+    public const double ReturnHeldS = 3;
+
+    /// <summary>Whether board b is to windward of board o (in the wind from <paramref name="fromDeg"/>), as the snapshot has them.</summary>
+    static bool ToWindwardOf(RaceContext c, int b, int o, double fromDeg)
+    {
+        var s = c.Snapshot;
+        return Vec2.Dot(new Vec2(s.X[b] - s.X[o], s.Y[b] - s.Y[o]), Vec2.FromBearing(fromDeg)) > 0;
+    }
+
     static void ApplyIntent(RaceContext c, int b, ref Intent it, ref Helm helm, ref Penalty pen, ref Perception per, in Pose pose, in SensedWind sw,
         in ManoeuvreState man, in RaceStatus st, in GiveWay gw)
     {
@@ -80,7 +90,17 @@ public sealed class DecideSystem : RaceSystem
         {
             // Before the signal a rider keeping clear turns as the lookout says but sheets in no more than the start
             // plan wants: sheeting in near the line would carry them over early (docs/tactics.md, "Start plans").
-            h = gw.Heading; pw = st.State == RaceState.PreStart && c.Time < 0 ? Math.Min(gw.Power, pw) : gw.Power;
+            // Waiting for clear water to take a penalty, a rider who has sheeted out to let a board by (PenaltyTurn)
+            // stays sheeted out while keeping clear of it: two boards owing penalties otherwise sailed on side by side
+            // for minutes, the one keeping clear at full power (the 40-board demo, seed 17).
+            bool penaltyDropsBack = pen.Stage is 2 or 4 && pw == 0;
+            h = gw.Heading; pw = st.State == RaceState.PreStart && c.Time < 0 || penaltyDropsBack ? Math.Min(gw.Power, pw) : gw.Power;
+            // Back from an early start a rider keeps clear of every board not returning (RRS 21.1). Held for a few
+            // seconds from bearing away back to the line by a board to leeward, they sheet out and let it sail by, then
+            // bear away astern of it, rather than sail on up the course beside it (common practice; the 40-board demo's
+            // early starter sailed a minute and a half of the beat that way).
+            if (st.State == RaceState.Returning && c.Time - gw.AtS >= ReturnHeldS
+                && Vec2.Dot(Vec2.FromBearing(Unit.RadToDeg(h)), c.Course.Start.Normal) > 0 && ToWindwardOf(c, b, gw.Other, sw.TrueFromDeg)) pw = 0;
         }
         it.Heading = h; it.Power = pw; it.TargetSpeed = helm.WantV;
     }
