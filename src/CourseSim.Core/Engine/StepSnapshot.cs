@@ -22,6 +22,8 @@ public sealed class StepSnapshot
     /// <summary>Racing or before the start (not finished, not out of the race).</summary>
     public readonly bool[] Live;
     public readonly bool[] Finished, Tacking, Capsized, Busy, KeepingClear;
+    /// <summary>Owes a penalty and is in a stage where it waits for clear water before its tack or gybe (PenaltyTurn).</summary>
+    public readonly bool[] PenaltyWait;
     /// <summary>Time the snapshot was taken, s from the signal.</summary>
     public double TimeS;
     /// <summary>Whether <see cref="HeadX"/>, <see cref="HeadY"/> (and the track's angle) are this capture's (set by <see cref="PrepareLookout"/>).</summary>
@@ -34,7 +36,7 @@ public sealed class StepSnapshot
         FromDeg = new double[n]; Tws = new double[n]; AppFromDeg = new double[n]; AppDownX = new double[n]; AppDownY = new double[n];
         TrackSin = new double[n]; TrackCos = new double[n]; _rawSin = new double[n]; _rawCos = new double[n]; HeadX = new double[n]; HeadY = new double[n];
         NextStep = new int[n];
-        Live = new bool[n]; Finished = new bool[n]; Tacking = new bool[n]; Capsized = new bool[n]; Busy = new bool[n]; KeepingClear = new bool[n];
+        Live = new bool[n]; Finished = new bool[n]; Tacking = new bool[n]; Capsized = new bool[n]; Busy = new bool[n]; KeepingClear = new bool[n]; PenaltyWait = new bool[n];
     }
 
     /// <summary>Copies every board's visible state from the world (finished boards included: they are seen as not live).</summary>
@@ -45,7 +47,7 @@ public sealed class StepSnapshot
         foreach (var chunk in all)
         {
             var ids = chunk.Span<BoardId>(); var pose = chunk.Span<Pose>(); var mo = chunk.Span<Motion>(); var sw = chunk.Span<SensedWind>();
-            var trim = chunk.Span<Trim>(); var man = chunk.Span<ManoeuvreState>(); var st = chunk.Span<RaceStatus>(); var gw = chunk.Span<GiveWay>();
+            var trim = chunk.Span<Trim>(); var man = chunk.Span<ManoeuvreState>(); var st = chunk.Span<RaceStatus>(); var gw = chunk.Span<GiveWay>(); var pen = chunk.Span<Penalty>();
             for (int i = 0; i < ids.Length; i++)
             {
                 int b = ids[i].Value;
@@ -64,6 +66,7 @@ public sealed class StepSnapshot
                 Busy[b] = m.Kind != Manoeuvre.None;
                 KeepingClear[b] = gw[i].On && timeS >= gw[i].AtS;
                 NextStep[b] = st[i].NextStep;
+                PenaltyWait[b] = pen[i].Stage is 2 or 4;
             }
         }
     }
@@ -91,7 +94,7 @@ public sealed class StepSnapshot
                      (Tws, o.Tws), (AppFromDeg, o.AppFromDeg), (AppDownX, o.AppDownX), (AppDownY, o.AppDownY),
                      (TrackSin, o.TrackSin), (TrackCos, o.TrackCos), (HeadX, o.HeadX), (HeadY, o.HeadY), (_rawSin, o._rawSin), (_rawCos, o._rawCos) }) Array.Copy(src, dst, Count);
         Array.Copy(o.NextStep, NextStep, Count);
-        foreach (var (dst, src) in new[] { (Live, o.Live), (Finished, o.Finished), (Tacking, o.Tacking), (Capsized, o.Capsized), (Busy, o.Busy), (KeepingClear, o.KeepingClear) })
+        foreach (var (dst, src) in new[] { (Live, o.Live), (Finished, o.Finished), (Tacking, o.Tacking), (Capsized, o.Capsized), (Busy, o.Busy), (KeepingClear, o.KeepingClear), (PenaltyWait, o.PenaltyWait) })
             Array.Copy(src, dst, Count);
     }
 }
