@@ -38,7 +38,7 @@ public sealed class DecideSystem : RaceSystem
 
     public override string Name => "decide";
     public override SystemScope Scope => SystemScope.OwnBoard;
-    public override string Reads => "Pose, Motion, SensedWind, Trim (planing), Perception, RaceStatus, ManoeuvreState, Penalty, GiveWay; snapshot (boards in sight); grid (nearest)";
+    public override string Reads => "Pose, Motion, SensedWind, Trim (planing), Perception, RaceStatus, ManoeuvreState, Penalty, GiveWay; snapshot (boards in sight, the board kept clear of, boards waiting to take a penalty); grid (nearest, neighbours)";
     public override string Writes => "Helm, Intent, StartPlan, Perception.LastTurnS, Penalty (serving), events";
 
     /// <summary>The boards in sight come from a hash of the step snapshot, built at the step's first look.</summary>

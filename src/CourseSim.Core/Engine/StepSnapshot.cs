@@ -5,7 +5,8 @@ namespace CourseSim.Engine;
 /// <summary>
 /// What every board can see of every other, taken once per step right after the wind is sensed (docs/engine.md,
 /// "Everyone reads the same instant"): position, heading, track, speed, the true wind at the rig, the direction its
-/// apparent wind blows (its wake), whether it is tacking, capsized or busy, keeping clear, and its next course step.
+/// apparent wind blows (its wake), whether it is tacking, capsized or busy, keeping clear or waiting to take a penalty,
+/// and its next course step.
 /// Tactics (boards in sight), the rules' lookout and contact checks, and the shadows read this, never live components,
 /// so the order the step walks the boards in cannot change a result. Structure of arrays indexed by board.
 /// </summary>

@@ -15,7 +15,7 @@ public sealed class SnapshotSystem : RaceSystem
 
     public override string Name => "snapshot";
     public override SystemScope Scope => SystemScope.Fleet;
-    public override string Reads => "Pose, Motion, SensedWind, Trim, ManoeuvreState, RaceStatus, GiveWay (all boards)";
+    public override string Reads => "Pose, Motion, SensedWind, Trim, ManoeuvreState, RaceStatus, GiveWay, Penalty (all boards)";
     public override string Writes => "snapshot; neighbour grid; lookout accelerations";
 
     public override void RunFleet(RaceContext c)
