@@ -25,6 +25,17 @@ public sealed class ForeseenConflicts
 
     public bool Remove(long key) => _rows.Remove(Keeper(key), Other(key));
 
+    /// <summary>
+    /// Forgets the conflicts a rider had foreseen with boards no longer among their neighbours (out of the lookout's
+    /// range, or no longer among the nearest it follows): a conflict is foreseen in an encounter, and a later one with
+    /// the same board is a new encounter, whose warning is counted from when it is seen (the contact judge reads it).
+    /// Before, such entries stayed for the rest of the race: a contact minutes later read as seen minutes before.
+    /// </summary>
+    public void KeepOnlyNeighbours(int keeper, ReadOnlySpan<int> neighbours)
+    {
+        if (_rows.RowCount(keeper) != 0) _rows.KeepOnly(keeper, neighbours);
+    }
+
     static int Keeper(long key) => (int)(key >> 32);
     static int Other(long key) => (int)(uint)key;
 }

@@ -78,6 +78,20 @@ public sealed class PairRows<T> where T : struct
         return true;
     }
 
+    /// <summary>Removes from row a every entry whose other board is not in <paramref name="keep"/>; how many went.</summary>
+    public int KeepOnly(int a, ReadOnlySpan<int> keep)
+    {
+        int o = a * _room, removed = 0;
+        for (int i = o; i < o + _len[a];)
+        {
+            if (keep.Contains(_other[i])) { i++; continue; }
+            int last = o + --_len[a];
+            _other[i] = _other[last]; _val[i] = _val[last];
+            Count--; removed++;
+        }
+        return removed;
+    }
+
     void Append(int a, int b, T value)
     {
         if (_len[a] == _room) Grow();

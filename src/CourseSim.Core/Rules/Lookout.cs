@@ -89,7 +89,9 @@ public sealed class Lookout : RaceSystem
         for (int i = 0; i < blk.Count; i++)
         {
             int k = blk.Id[i].Value;
-            if (c.Snapshot.Live[k]) One(c, k, in blk.Helm[i], in blk.Penalty[i], ref blk.GiveWay[i]);
+            if (!c.Snapshot.Live[k]) continue;
+            c.Foreseen.KeepOnlyNeighbours(k, c.Grid.Neighbours(k));
+            One(c, k, in blk.Helm[i], in blk.Penalty[i], ref blk.GiveWay[i]);
         }
     }
 
