@@ -28,7 +28,7 @@ public static class RaceReport
     [
         ("neighbours checked in threat scans", w => w.NeighbourChecks), ("give-way searches", w => w.GiveWaySearches),
         ("candidate courses vetted in them", w => w.CandidatesVetted),
-        ("hull-gap predictions", w => w.HullGapProbes), ("grid pairs listed", w => w.GridPairs),
+        ("hull-gap predictions", w => w.HullGapProbes), ("boards the grid looked at", w => w.GridCandidates),
     ];
 
     public static void Run(ReportOptions o)

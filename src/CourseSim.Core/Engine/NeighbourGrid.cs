@@ -1,12 +1,20 @@
 namespace CourseSim.Engine;
 
 /// <summary>
-/// The fleet's neighbour grid: square cells of <see cref="CellM"/> hashed into about twice as many buckets as boards and
-/// filled by counting sort, so a rebuild is O(N) however far the fleet spreads, with no allocation once sized. Boards go
-/// in in the canonical order (<see cref="Fleet.ByRank"/>), so every bucket lists them in that order and every list
-/// built from the grid has one order whatever the order of the scenario file. From the grid come each board's neighbour
-/// list (at most <see cref="MaxNeighbours"/>, the nearest within the lookout range), the pairs close enough to touch
-/// before the next rebuild (all of them), and each board's nearest neighbour.
+/// The fleet's neighbour grid: square cells hashed into about twice as many buckets as boards and filled by counting
+/// sort, so a rebuild is O(N) however far the fleet spreads, with no allocation once sized. Boards go in in the
+/// canonical order (<see cref="Fleet.ByRank"/>), so every bucket lists them in that order and every list built from
+/// the grid has one order whatever the order of the scenario file. From the grid come each board's neighbour list (at
+/// most <see cref="MaxNeighbours"/>, the nearest within the lookout range, in canonical order), the pairs close enough
+/// to touch before the next rebuild (all of them), and each board's nearest neighbour.
+/// <para>
+/// Two cell sizes: a board first looks into the 3 x 3 cells of half the lookout range round it (a quarter of the area
+/// of the full range's 3 x 3 cells). Every board within half the range is there, so when it holds at least
+/// <see cref="MaxNeighbours"/> of them, those nearest are the nearest of all, and the close pairs and the nearest
+/// neighbour are among them too; only a board with fewer looks again over the full range. In a packed start or a
+/// dense fleet most boards stop at the first look (the full range's cells held about 180 boards a board in the
+/// 2,000-board benchmark's start).
+/// </para>
 /// </summary>
 public sealed class NeighbourGrid
 {
@@ -22,18 +30,25 @@ public sealed class NeighbourGrid
     readonly int _n;
     // The boards in cells of the lookout range (counting sort; see CellHash), rebuilt at each lookout.
     readonly CellHash _cells;
+    // The same boards in cells of half the range, for the first look.
+    readonly CellHash _near;
+    readonly double _nearM;
+    // Each board's distance to its MaxNeighbours-th nearest at the last build (+infinity when fewer): a board takes the
+    // first look over half the range only when that was well inside it, so a sparse fleet does not look twice. Which
+    // look finds a board's neighbours changes nothing they are or the order they are listed in (see Build).
+    readonly double[] _kth;
 
     /// <summary>Pairs within the contact watch distance (each once, from the board earlier in the canonical order).</summary>
     public readonly List<(int A, int B)> Close;
     /// <summary>Each board's distance to its nearest live neighbour, m (+infinity when none within range).</summary>
     public readonly double[] NearestM;
-    /// <summary>Pairs within <see cref="RangeM"/> at the last build (each pair once), for the benchmark's work counts.</summary>
-    public int PairsInRange { get; private set; }
+    /// <summary>Boards looked at (distances worked out) in the last build, for the benchmark's work counts.</summary>
+    public int CandidatesExamined { get; private set; }
     // The rows (each board's kept neighbours) one after another, board b's at _adjStart[b], _adjLen[b] long.
     int[] _adjStart, _adjLen, _adj, _rank;
     // Scratch for one board's candidates: the neighbour, and its key for picking the nearest (the distance in single
     // precision, whose bits order as the values do, distances being positive, above the neighbour's canonical rank:
-    // unique keys, ties go by rank). Earlier-ranked candidates and later ones apart (see Build).
+    // unique keys, ties go by rank); then the kept ones (at most MaxNeighbours) sorted into canonical order.
     int[] _eId = new int[64], _lId = new int[64];
     ulong[] _eKey = new ulong[64], _lKey = new ulong[64], _pick = new ulong[128];
 
@@ -43,6 +58,10 @@ public sealed class NeighbourGrid
     {
         _n = boards; RangeM = rangeM; CellM = rangeM;
         _cells = new CellHash(rangeM, boards);
+        _nearM = rangeM / 2;
+        _near = new CellHash(_nearM, boards);
+        _kth = new double[boards];
+        Array.Fill(_kth, double.PositiveInfinity);
         NearestM = new double[boards];
         _adjStart = new int[boards]; _adjLen = new int[boards]; _rank = new int[boards];
         // Room up front for a bunched start (the 40-board demo's countdown reached about 25 pairs a board), so the step
@@ -57,69 +76,102 @@ public sealed class NeighbourGrid
 
     /// <summary>
     /// Rebuilds from the snapshot's live boards: each board's neighbours within range (kept to the nearest
-    /// <see cref="MaxNeighbours"/>), its nearest neighbour's distance, and the pairs within <paramref name="closeM"/>.
-    /// Board by board in the canonical order, each looks into the 3 x 3 cells round its own. A row lists the
-    /// neighbours earlier in the canonical order first, in that order, then the later ones in the order the cells are
-    /// walked (row of cells by row, each cell's boards in canonical order); the close pairs come from each board's later
-    /// neighbours in the same walk. (This is the order the grid had when it listed every pair within range first and
-    /// built the rows from that list, which it no longer makes: the same rows, so the same bits.) Each pair's distance
-    /// is worked out from both ends, with the same bits: x_a - x_b is exactly -(x_b - x_a).
+    /// <see cref="MaxNeighbours"/>, listed in canonical order), its nearest neighbour's distance, and the pairs within
+    /// <paramref name="closeM"/> (each once, from the board earlier in the canonical order, in canonical order of both).
+    /// Each pair's distance is worked out from both ends, with the same bits: x_a - x_b is exactly -(x_b - x_a). Every
+    /// list is the same whichever look found it, so the choice of look (from the last build) changes no result, and a
+    /// checkpoint need not keep it.
     /// </summary>
     public void Build(StepSnapshot s, int[] byRank, double closeM)
     {
         _cells.Build(s, byRank);
+        double tryNear = closeM <= _nearM ? NearTryShare * _nearM : -1;
+        bool anyNear = false;
+        for (int r = 0; r < byRank.Length && !anyNear; r++) anyNear = s.Live[byRank[r]] && _kth[byRank[r]] <= tryNear;
+        if (anyNear) _near.Build(s, byRank);
         Close.Clear();
-        double range2 = RangeM * RangeM;
-        int n = byRank.Length, fill = 0, pairs = 0;
+        int n = byRank.Length, fill = 0, examined = 0;
         for (int r = 0; r < n; r++) _rank[byRank[r]] = r;
         for (int r = 0; r < n; r++)
         {
             int a = byRank[r];
             _adjStart[a] = fill; _adjLen[a] = 0; NearestM[a] = double.PositiveInfinity;
-            if (!s.Live[a]) continue;
-            double xa = s.X[a], ya = s.Y[a], nearest = double.PositiveInfinity;
-            int ai = _cells.CellI(a), aj = _cells.CellJ(a), ne = 0, nl = 0;
-            for (int dj = -1; dj <= 1; dj++)
-                for (int di = -1; di <= 1; di++)
-                {
-                    int ci = ai + di, cj = aj + dj;
-                    foreach (ref readonly var e in _cells.Bucket(ci, cj))
-                    {
-                        if (e.Ci != ci || e.Cj != cj || e.Rank == r) continue;
-                        double dx = xa - e.X, dy = ya - e.Y, d2 = dx * dx + dy * dy;
-                        if (d2 > range2) continue;
-                        double d = Math.Sqrt(d2);
-                        if (d < nearest) nearest = d;
-                        ulong key = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32 | (uint)e.Rank;
-                        if (e.Rank < r) { Room(ref _eId, ref _eKey, ne); _eId[ne] = e.Board; _eKey[ne++] = key; continue; }
-                        Room(ref _lId, ref _lKey, nl); _lId[nl] = e.Board; _lKey[nl++] = key;
-                        pairs++;
-                        if (d < closeM) Close.Add((a, e.Board));
-                    }
-                }
+            if (!s.Live[a]) { _kth[a] = double.PositiveInfinity; continue; }
+            int closeFrom = Close.Count;
+            var (ne, nearest) = anyNear && _kth[a] <= tryNear ? Look(_near, s, a, r, _nearM, closeM, ref examined) : (0, double.PositiveInfinity);
+            if (ne < MaxNeighbours)
+            {
+                // Fewer than the cap within half the range (or no first look): look over the whole range, its close
+                // pairs from scratch.
+                if (Close.Count > closeFrom) Close.RemoveRange(closeFrom, Close.Count - closeFrom);
+                (ne, nearest) = Look(_cells, s, a, r, RangeM, closeM, ref examined);
+            }
+            // This board's close pairs in canonical order of the other board, whichever look found them.
+            for (int i = closeFrom + 1; i < Close.Count; i++)
+            {
+                var pr = Close[i]; int rk = _rank[pr.B], j = i - 1;
+                for (; j >= closeFrom && _rank[Close[j].B] > rk; j--) Close[j + 1] = Close[j];
+                Close[j + 1] = pr;
+            }
             NearestM[a] = nearest;
-            // The earlier neighbours in canonical order (the key's low half is the rank): insertion sort of a few.
-            for (int i = 1; i < ne; i++)
-            {
-                int id = _eId[i]; ulong k = _eKey[i]; uint rk = (uint)k;
-                int j = i - 1;
-                for (; j >= 0 && (uint)_eKey[j] > rk; j--) { _eId[j + 1] = _eId[j]; _eKey[j + 1] = _eKey[j]; }
-                _eId[j + 1] = id; _eKey[j + 1] = k;
-            }
-            int len = ne + nl;
-            if (_adj.Length < fill + Math.Min(len, MaxNeighbours)) Array.Resize(ref _adj, 2 * (fill + len));
             ulong cut = ulong.MaxValue;
-            if (len > MaxNeighbours)
+            if (ne >= MaxNeighbours)
             {
-                if (_pick.Length < len) _pick = new ulong[2 * len];
-                Array.Copy(_eKey, 0, _pick, 0, ne); Array.Copy(_lKey, 0, _pick, ne, nl);
-                cut = NthSmallest(_pick, len, MaxNeighbours - 1);
+                if (_pick.Length < ne) _pick = new ulong[2 * ne];
+                Array.Copy(_eKey, 0, _pick, 0, ne);
+                cut = NthSmallest(_pick, ne, MaxNeighbours - 1);
+                _kth[a] = BitConverter.UInt32BitsToSingle((uint)(cut >> 32));
             }
-            for (int i = 0; i < ne; i++) if (_eKey[i] <= cut) _adj[fill++] = _eId[i];
-            for (int i = 0; i < nl; i++) if (_lKey[i] <= cut) _adj[fill++] = _lId[i];
-            _adjLen[a] = fill - _adjStart[a];
+            else _kth[a] = double.PositiveInfinity;
+            // The kept ones in canonical order (the key's low half is the rank): insertion sort of a few.
+            int kept = 0;
+            for (int i = 0; i < ne; i++)
+            {
+                if (_eKey[i] > cut) continue;
+                uint rk = (uint)_eKey[i];
+                int j = kept - 1;
+                for (; j >= 0 && (uint)_lKey[j] > rk; j--) { _lId[j + 1] = _lId[j]; _lKey[j + 1] = _lKey[j]; }
+                _lId[j + 1] = _eId[i]; _lKey[j + 1] = _eKey[i];
+                kept++;
+            }
+            if (_adj.Length < fill + kept) Array.Resize(ref _adj, 2 * (fill + kept));
+            for (int i = 0; i < kept; i++) _adj[fill++] = _lId[i];
+            _adjLen[a] = kept;
         }
-        PairsInRange = pairs;
+        CandidatesExamined = examined;
+    }
+
+    /// <summary>A board takes the first look over half the range when its nearest <see cref="MaxNeighbours"/> were last
+    /// within this share of it (so the first look usually finds them; a miss costs only a second look).</summary>
+    const double NearTryShare = 0.9;
+
+    /// <summary>
+    /// Board a's candidates within <paramref name="range"/> in the 3 x 3 cells of <paramref name="cells"/> round it, into
+    /// the candidate buffer (neighbour and key: the distance in single precision, whose bits order as the values do,
+    /// above the rank), with the close pairs to later-ranked boards; how many, and the nearest distance.
+    /// </summary>
+    (int Count, double Nearest) Look(CellHash cells, StepSnapshot s, int a, int r, double range, double closeM, ref int examined)
+    {
+        double range2 = range * range, xa = s.X[a], ya = s.Y[a], nearest = double.PositiveInfinity;
+        int ai = cells.CellI(a), aj = cells.CellJ(a), ne = 0;
+        for (int dj = -1; dj <= 1; dj++)
+            for (int di = -1; di <= 1; di++)
+            {
+                int ci = ai + di, cj = aj + dj;
+                foreach (ref readonly var e in cells.Bucket(ci, cj))
+                {
+                    if (e.Ci != ci || e.Cj != cj || e.Rank == r) continue;
+                    examined++;
+                    double dx = xa - e.X, dy = ya - e.Y, d2 = dx * dx + dy * dy;
+                    if (d2 > range2) continue;
+                    double d = Math.Sqrt(d2);
+                    if (d < nearest) nearest = d;
+                    Room(ref _eId, ref _eKey, ne);
+                    _eId[ne] = e.Board; _eKey[ne++] = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32 | (uint)e.Rank;
+                    if (e.Rank > r && d < closeM) Close.Add((a, e.Board));
+                }
+            }
+        return (ne, nearest);
     }
 
     /// <summary>Grows a candidate buffer (both columns) so index i fits: once, for a denser fleet than any before.</summary>
@@ -153,7 +205,7 @@ public sealed class NeighbourGrid
     {
         Close.Clear(); Close.AddRange(o.Close);
         Array.Copy(o.NearestM, NearestM, _n);
-        PairsInRange = o.PairsInRange;
+        CandidatesExamined = o.CandidatesExamined;
         _adjStart = (int[])o._adjStart.Clone(); _adjLen = (int[])o._adjLen.Clone(); _adj = (int[])o._adj.Clone();
     }
 }

@@ -15,6 +15,6 @@ public sealed class WorkCounts
     public long CandidatesVetted;
     /// <summary>Hull-gap predictions asked for (the search's costliest call).</summary>
     public long HullGapProbes;
-    /// <summary>Pairs within the lookout range listed by the neighbour grid's rebuilds.</summary>
-    public long GridPairs;
+    /// <summary>Boards the neighbour grid's rebuilds looked at (a distance each).</summary>
+    public long GridCandidates;
 }

@@ -33,6 +33,6 @@ public sealed class SnapshotSystem : RaceSystem
             c.LookoutSpeed[b] = s.Speed[b];
         }
         c.Grid.Build(s, c.Fleet.ByRank, ContactCheckM + MaxClosingMs * interval);
-        c.Work.GridPairs += c.Grid.PairsInRange;
+        c.Work.GridCandidates += c.Grid.CandidatesExamined;
     }
 }
