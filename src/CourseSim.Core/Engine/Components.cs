@@ -110,8 +110,9 @@ public struct StartPlan { public double SpotX, SpotY, WaitX, WaitY, GoMarginS, L
 /// </summary>
 public struct GiveWay { public bool On; public int Other; public byte Rule; public double AtS, Heading, Power; public int Episodes; public double DeferS; }
 
-/// <summary>One-turn penalties: owed, taken, and the stage of the one being served (0 none, 1-4) with its turning sign.</summary>
-public struct Penalty { public int Owed, Taken, Stage, Sign; }
+/// <summary>One-turn penalties: owed, taken, and the stage of the one being served (0 none, 1-4) with its turning sign;
+/// when the present wait for clear water before its tack or gybe began (s, stages 2 and 4).</summary>
+public struct Penalty { public int Owed, Taken, Stage, Sign; public double WaitFromS; }
 
 /// <summary>
 /// Book-keeping of the board's own past: where it was at the last step (m, for line and rounding crossings), when it last

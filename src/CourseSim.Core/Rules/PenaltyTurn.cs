@@ -13,6 +13,13 @@ public static class PenaltyTurn
 {
     /// <summary>A rider is well clear to take a penalty with no other board this close, m (model value).</summary>
     public const double WellClearM = 15;
+    /// <summary>
+    /// A rider who has waited this long (s) half-way through a penalty turn for clear water gives the turn up and races
+    /// on, to begin it again when well clear (model value; the penalty is still owed). Held on the turn's heading, riders
+    /// ran on downwind in company for minutes, away from the mark they had to round, sheeting out on a run hardly
+    /// separating them (40 boards, seed 43: 175 s, the first leg 803 s).
+    /// </summary>
+    public const double GiveUpWaitS = 30;
 
     /// <summary>Starts a penalty turn for a board that owes one, is racing, free, and well clear of the others.</summary>
     public static void MaybeStart(RaceContext c, int b, ref Penalty pen, in Pose pose, in SensedWind sw, in ManoeuvreState man, in RaceStatus st)
@@ -29,30 +36,37 @@ public static class PenaltyTurn
         int s = pen.Sign;
         double fromDeg = sw.TrueFromDeg;
         double At(double twaDeg) => Unit.WrapRadPi(Unit.DegToRad(fromDeg - twaDeg));
-        bool crowded = c.Grid.NearestM[b] < WellClearM && Crowded(c, b);
+        const double clearM = WellClearM;
+        bool crowded = c.Grid.NearestM[b] < clearM && Crowded(c, b, clearM);
+        if (crowded && pen.Stage is 2 or 4 && man.Kind == Manoeuvre.None && c.Time - pen.WaitFromS > GiveUpWaitS)
+        {
+            // Given up for now: the tactic steers again this step and the turn begins anew when well clear.
+            pen.Stage = 0;
+            return;
+        }
         pw = 1;
         switch (pen.Stage)
         {
             case 1:
                 h = At(s * 45);
-                if (Math.Abs(twa) < Unit.DegToRad(60)) pen.Stage = 2;
+                if (Math.Abs(twa) < Unit.DegToRad(60)) { pen.Stage = 2; pen.WaitFromS = c.Time; }
                 break;
             case 2:
                 // Waiting to be well clear for the tack: still on the original tack, nothing begun.
                 bool waitTack = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s;
                 h = waitTack ? At(s * 45) : At(-s * 45);
-                if (waitTack && DropsBack(c, b, pose)) pw = 0;
+                if (waitTack && DropsBack(c, b, pose, clearM)) pw = 0;
                 if (man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s) pen.Stage = 3;
                 break;
             case 3:
                 h = At(-s * 150);
-                if (Math.Abs(twa) > Unit.DegToRad(130)) pen.Stage = 4;
+                if (Math.Abs(twa) > Unit.DegToRad(130)) { pen.Stage = 4; pen.WaitFromS = c.Time; }
                 break;
             case 4:
                 // Waiting to be well clear for the gybe: still on the other tack, nothing begun.
                 bool waitGybe = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s;
                 h = waitGybe ? At(-s * 150) : At(s * 150);
-                if (waitGybe && DropsBack(c, b, pose)) pw = 0;
+                if (waitGybe && DropsBack(c, b, pose, clearM)) pw = 0;
                 if (man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s)
                 {
                     pen.Stage = 0; pen.Owed--; pen.Taken++; per.LastTurnS = c.Time;
@@ -63,19 +77,19 @@ public static class PenaltyTurn
     }
 
     /// <summary>
-    /// Whether a board other than one that gives way to b's penalty is within <see cref="WellClearM"/>. A board that is
+    /// Whether a board other than one that gives way to b's penalty is within <paramref name="clearM"/>. A board that is
     /// itself waiting to take a penalty with b ahead of it (or level, b earlier in the canonical order) sheets out to
     /// let b go (<see cref="DropsBack"/>), so b need not wait for it: three boards owing penalties otherwise ran on
     /// downwind together for ten minutes, sheeting out on a run hardly slowing the ones behind (40 boards, seed 17).
     /// The turn itself is still vetted by the lookout (RRS 15, 16), which puts it off with a board too close.
     /// </summary>
-    static bool Crowded(RaceContext c, int b)
+    static bool Crowded(RaceContext c, int b, double clearM)
     {
         var s = c.Snapshot;
         foreach (int j in c.Grid.Neighbours(b))
         {
             double dx = s.X[b] - s.X[j], dy = s.Y[b] - s.Y[j];
-            if (dx * dx + dy * dy >= WellClearM * WellClearM) continue;
+            if (dx * dx + dy * dy >= clearM * clearM) continue;
             if (!s.PenaltyWait[j]) return true;
             // b seen from j, along j's heading: j drops back for b ahead (or level and earlier in the canonical order).
             var (fx, fy) = Math.SinCos(s.Heading[j]);
@@ -91,14 +105,14 @@ public static class PenaltyTurn
     /// penalty otherwise sailed on side by side, each waiting for the other, far past the mark (issue 12; RRS 44.1 asks
     /// for the turn as soon as possible; model value: level means within a metre along the heading).
     /// </summary>
-    static bool DropsBack(RaceContext c, int b, in Pose pose)
+    static bool DropsBack(RaceContext c, int b, in Pose pose, double clearM)
     {
         var s = c.Snapshot;
         var (fx, fy) = Math.SinCos(pose.Heading);
         foreach (int j in c.Grid.Neighbours(b))
         {
             double dx = s.X[j] - s.X[b], dy = s.Y[j] - s.Y[b];
-            if (dx * dx + dy * dy >= WellClearM * WellClearM) continue;
+            if (dx * dx + dy * dy >= clearM * clearM) continue;
             double ahead = dx * fx + dy * fy;
             if (ahead > 1 || Math.Abs(ahead) <= 1 && c.Fleet.Rank[j] < c.Fleet.Rank[b]) return true;
         }

@@ -105,8 +105,8 @@ public class DeterminismTests
 
     // Golden hashes of the final state (every component, clock, log, splits, recorded samples) of the two demos at their
     // own seeds. Change them only on purpose, with a note in the commit saying why (docs/engine.md, "Determinism").
-    internal const string GoldenDemo12 = "68def7fd34bce19d5e37afba26dbd3205407b6de00ff99959bbc833fea5e093e"; // 3 Dec 2026 (eighth session): spin-out only from the drop-off speed, a fin at exactly its maximum lift is not saturated, no tack begun before the signal with a board within 12 m, give-way courses charged for the next mark's wrong hand, the turn at a mark begun 4 m short of abeam (was 8 m)
-    const string GoldenDemo40 = "1722f1f5c5fcba2b48aa8595ce7b7b6502bf5ab6f613eb2b028c234653fd8a71"; // 3 Dec 2026 (ninth session): a returning early starter held by a board to leeward for 3 s sheets out to let it by (its own seed: one early starter sailed 95 s of the beat); a rider waiting to take a penalty stays sheeted out while keeping clear
+    internal const string GoldenDemo12 = "ac3043f0c5e600aca44307e99f71a4579497aea9e43d640dd3086034193dd9bf"; // 3 Dec 2026 (ninth session): neighbour rows listed in canonical order (the grid's two looks), and a rider gives up a penalty turn after 30 s waiting half-way through it for clear water
+    const string GoldenDemo40 = "ea65e9d6bd6c2a6eef9b09d6af94eef39be60bc686ebd768c4cc83da25defcfa"; // 3 Dec 2026 (ninth session): a returning early starter held by a board to leeward sheets out; neighbour rows in canonical order; penalty turns given up after 30 s waiting
 
     [Fact]
     public void GoldenHashesOfTheDemos()
