@@ -93,7 +93,7 @@ public sealed class DecideSystem : RaceSystem
             // Waiting for clear water to take a penalty, a rider who has sheeted out to let a board by (PenaltyTurn)
             // stays sheeted out while keeping clear of it: two boards owing penalties otherwise sailed on side by side
             // for minutes, the one keeping clear at full power (the 40-board demo, seed 17).
-            bool penaltyDropsBack = pen.Stage is 2 or 4 && pw == 0;
+            bool penaltyDropsBack = pen.InWaitStage && pw == 0;
             h = gw.Heading; pw = st.State == RaceState.PreStart && c.Time < 0 || penaltyDropsBack ? Math.Min(gw.Power, pw) : gw.Power;
             // Back from an early start a rider keeps clear of every board not returning (RRS 21.1). Held for a few
             // seconds from bearing away back to the line by a board to leeward, they sheet out and let it sail by, then

@@ -112,7 +112,13 @@ public struct GiveWay { public bool On; public int Other; public byte Rule; publ
 
 /// <summary>One-turn penalties: owed, taken, and the stage of the one being served (0 none, 1-4) with its turning sign;
 /// when the present wait for clear water before its tack or gybe began (s, stages 2 and 4).</summary>
-public struct Penalty { public int Owed, Taken, Stage, Sign; public double WaitFromS; }
+public struct Penalty
+{
+    public int Owed, Taken, Stage, Sign;
+    public double WaitFromS;
+    /// <summary>In a stage that waits for clear water before its tack (2) or gybe (4).</summary>
+    public readonly bool InWaitStage => Stage is 2 or 4;
+}
 
 /// <summary>
 /// Book-keeping of the board's own past: where it was at the last step (m, for line and rounding crossings), when it last

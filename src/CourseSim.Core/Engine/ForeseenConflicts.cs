@@ -31,10 +31,7 @@ public sealed class ForeseenConflicts
     /// the same board is a new encounter, whose warning is counted from when it is seen (the contact judge reads it).
     /// Before, such entries stayed for the rest of the race: a contact minutes later read as seen minutes before.
     /// </summary>
-    public void KeepOnlyNeighbours(int keeper, ReadOnlySpan<int> neighbours)
-    {
-        if (_rows.RowCount(keeper) != 0) _rows.KeepOnly(keeper, neighbours);
-    }
+    public void KeepOnlyNeighbours(int keeper, ReadOnlySpan<int> neighbours) => _rows.KeepOnly(keeper, neighbours);
 
     static int Keeper(long key) => (int)(key >> 32);
     static int Other(long key) => (int)(uint)key;

@@ -43,11 +43,11 @@ public sealed class PairRows<T> where T : struct
         return -1;
     }
 
-    public bool Contains(int a, int b) => _len[a] != 0 && Find(a, b) >= 0;
+    public bool Contains(int a, int b) => Find(a, b) >= 0;
 
     public bool TryGet(int a, int b, out T value)
     {
-        int i = _len[a] == 0 ? -1 : Find(a, b);
+        int i = Find(a, b);
         value = i < 0 ? default : _val[i];
         return i >= 0;
     }
@@ -69,7 +69,6 @@ public sealed class PairRows<T> where T : struct
 
     public bool Remove(int a, int b)
     {
-        if (_len[a] == 0) return false;
         int i = Find(a, b);
         if (i < 0) return false;
         int last = a * _room + --_len[a];

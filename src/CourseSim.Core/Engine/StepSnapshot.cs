@@ -67,7 +67,7 @@ public sealed class StepSnapshot
                 Busy[b] = m.Kind != Manoeuvre.None;
                 KeepingClear[b] = gw[i].On && timeS >= gw[i].AtS;
                 NextStep[b] = st[i].NextStep;
-                PenaltyWait[b] = pen[i].Stage is 2 or 4;
+                PenaltyWait[b] = pen[i].InWaitStage;
             }
         }
     }

@@ -36,9 +36,8 @@ public static class PenaltyTurn
         int s = pen.Sign;
         double fromDeg = sw.TrueFromDeg;
         double At(double twaDeg) => Unit.WrapRadPi(Unit.DegToRad(fromDeg - twaDeg));
-        const double clearM = WellClearM;
-        bool crowded = c.Grid.NearestM[b] < clearM && Crowded(c, b, clearM);
-        if (crowded && pen.Stage is 2 or 4 && man.Kind == Manoeuvre.None && c.Time - pen.WaitFromS > GiveUpWaitS)
+        bool crowded = c.Grid.NearestM[b] < WellClearM && Crowded(c, b);
+        if (crowded && pen.InWaitStage && man.Kind == Manoeuvre.None && c.Time - pen.WaitFromS > GiveUpWaitS)
         {
             // Given up for now: the tactic steers again this step and the turn begins anew when well clear.
             pen.Stage = 0;
@@ -55,7 +54,7 @@ public static class PenaltyTurn
                 // Waiting to be well clear for the tack: still on the original tack, nothing begun.
                 bool waitTack = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s;
                 h = waitTack ? At(s * 45) : At(-s * 45);
-                if (waitTack && DropsBack(c, b, pose, clearM)) pw = 0;
+                if (waitTack && DropsBack(c, b, pose)) pw = 0;
                 if (man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s) pen.Stage = 3;
                 break;
             case 3:
@@ -66,7 +65,7 @@ public static class PenaltyTurn
                 // Waiting to be well clear for the gybe: still on the other tack, nothing begun.
                 bool waitGybe = crowded && man.Kind == Manoeuvre.None && FastMath.Sign(twa) == -s;
                 h = waitGybe ? At(-s * 150) : At(s * 150);
-                if (waitGybe && DropsBack(c, b, pose, clearM)) pw = 0;
+                if (waitGybe && DropsBack(c, b, pose)) pw = 0;
                 if (man.Kind == Manoeuvre.None && FastMath.Sign(twa) == s)
                 {
                     pen.Stage = 0; pen.Owed--; pen.Taken++; per.LastTurnS = c.Time;
@@ -77,24 +76,19 @@ public static class PenaltyTurn
     }
 
     /// <summary>
-    /// Whether a board other than one that gives way to b's penalty is within <paramref name="clearM"/>. A board that is
+    /// Whether a board other than one that gives way to b's penalty is within <see cref="WellClearM"/>. A board that is
     /// itself waiting to take a penalty with b ahead of it (or level, b earlier in the canonical order) sheets out to
     /// let b go (<see cref="DropsBack"/>), so b need not wait for it: three boards owing penalties otherwise ran on
     /// downwind together for ten minutes, sheeting out on a run hardly slowing the ones behind (40 boards, seed 17).
     /// The turn itself is still vetted by the lookout (RRS 15, 16), which puts it off with a board too close.
     /// </summary>
-    static bool Crowded(RaceContext c, int b, double clearM)
+    static bool Crowded(RaceContext c, int b)
     {
         var s = c.Snapshot;
         foreach (int j in c.Grid.Neighbours(b))
         {
-            double dx = s.X[b] - s.X[j], dy = s.Y[b] - s.Y[j];
-            if (dx * dx + dy * dy >= clearM * clearM) continue;
-            if (!s.PenaltyWait[j]) return true;
-            // b seen from j, along j's heading: j drops back for b ahead (or level and earlier in the canonical order).
-            var (fx, fy) = Math.SinCos(s.Heading[j]);
-            double ahead = dx * fx + dy * fy;
-            if (!(ahead > 1 || Math.Abs(ahead) <= 1 && c.Fleet.Rank[b] < c.Fleet.Rank[j])) return true;
+            if (!WithinWellClear(s, b, j)) continue;
+            if (!s.PenaltyWait[j] || !LetsGo(c, j, Math.SinCos(s.Heading[j]), b)) return true;
         }
         return false;
     }
@@ -105,17 +99,28 @@ public static class PenaltyTurn
     /// penalty otherwise sailed on side by side, each waiting for the other, far past the mark (issue 12; RRS 44.1 asks
     /// for the turn as soon as possible; model value: level means within a metre along the heading).
     /// </summary>
-    static bool DropsBack(RaceContext c, int b, in Pose pose, double clearM)
+    static bool DropsBack(RaceContext c, int b, in Pose pose)
     {
         var s = c.Snapshot;
-        var (fx, fy) = Math.SinCos(pose.Heading);
+        var dir = Math.SinCos(pose.Heading);
         foreach (int j in c.Grid.Neighbours(b))
-        {
-            double dx = s.X[j] - s.X[b], dy = s.Y[j] - s.Y[b];
-            if (dx * dx + dy * dy >= clearM * clearM) continue;
-            double ahead = dx * fx + dy * fy;
-            if (ahead > 1 || Math.Abs(ahead) <= 1 && c.Fleet.Rank[j] < c.Fleet.Rank[b]) return true;
-        }
+            if (WithinWellClear(s, b, j) && LetsGo(c, b, dir, j)) return true;
         return false;
+    }
+
+    static bool WithinWellClear(StepSnapshot s, int a, int j)
+    {
+        double dx = s.X[j] - s.X[a], dy = s.Y[j] - s.Y[a];
+        return dx * dx + dy * dy < WellClearM * WellClearM;
+    }
+
+    /// <summary>Whether a rider waiting for clear water at <paramref name="waiter"/>, heading along <paramref name="dir"/>
+    /// (sine, cosine of the heading), lets <paramref name="other"/> go: it is more than a metre ahead, or level and earlier
+    /// in the canonical order.</summary>
+    static bool LetsGo(RaceContext c, int waiter, (double Sin, double Cos) dir, int other)
+    {
+        var s = c.Snapshot;
+        double ahead = (s.X[other] - s.X[waiter]) * dir.Sin + (s.Y[other] - s.Y[waiter]) * dir.Cos;
+        return ahead > 1 || Math.Abs(ahead) <= 1 && c.Fleet.Rank[other] < c.Fleet.Rank[waiter];
     }
 }
