@@ -86,20 +86,23 @@ public sealed class WindField
     void FillShiftTable()
     {
         const int Anchor = 256;
-        var acc = new double[_shiftTable.Length];
-        for (int k = 0; k < _shiftFreq.Length; k++)
+        int nk = _shiftFreq.Length;
+        // Each component's phasor and step rotation; the entries are walked once with the components inside, so the
+        // components' recurrences run side by side instead of one long chain each (the same operations in the same order
+        // per component, and each entry summed over the components in the same order: the same bits).
+        Span<double> sn = stackalloc double[nk], cs = stackalloc double[nk], sr = stackalloc double[nk], cr = stackalloc double[nk];
+        for (int k = 0; k < nk; k++) (sr[k], cr[k]) = Math.SinCos(_shiftFreq[k] * ShiftTableStep);
+        for (int i = 0; i < _shiftTable.Length; i++)
         {
-            double w = _shiftFreq[k], amp = _shiftAmp[k], ph = _shiftPhase[k];
-            var (sr, cr) = Math.SinCos(w * ShiftTableStep);
-            double sn = 0, cs = 1;
-            for (int i = 0; i < acc.Length; i++)
+            double acc = 0;
+            for (int k = 0; k < nk; k++)
             {
-                if (i % Anchor == 0) (sn, cs) = Math.SinCos(w * (ShiftTableStart + i * ShiftTableStep) + ph);
-                acc[i] += amp * sn;
-                (sn, cs) = (sn * cr + cs * sr, cs * cr - sn * sr);
+                if (i % Anchor == 0) (sn[k], cs[k]) = Math.SinCos(_shiftFreq[k] * (ShiftTableStart + i * ShiftTableStep) + _shiftPhase[k]);
+                acc += _shiftAmp[k] * sn[k];
+                (sn[k], cs[k]) = (sn[k] * cr[k] + cs[k] * sr[k], cs[k] * cr[k] - sn[k] * sr[k]);
             }
+            _shiftTable[i] = (float)acc;
         }
-        for (int i = 0; i < acc.Length; i++) _shiftTable[i] = (float)acc[i];
     }
 
     /// <summary>Mean speed (m/s) at time t: start speed plus ramp.</summary>
