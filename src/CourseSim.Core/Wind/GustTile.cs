@@ -36,22 +36,31 @@ public sealed class GustTile
         _v = values; Size = size; SpacingM = spacingM; _invSpacing = 1 / spacingM; Variance = variance;
     }
 
+    /// <summary>The work arrays of a band's synthesis (size x size, real and imaginary parts): a field's bands share one,
+    /// so a race allocates and collects 2 MiB less.</summary>
+    public sealed class Scratch(int size)
+    {
+        public readonly float[] Re = new float[size * size], Im = new float[size * size];
+        public int Size { get; } = size;
+    }
+
     /// <summary>
     /// One band of the field as two independent tiles from one inverse FFT: the real and imaginary parts of the transform
     /// of complex white noise shaped by an even spectrum are independent fields with that spectrum. Both tiles have
     /// <paramref name="pointsPerScale"/> grid points per l, so their spectra are the same in grid units and the second tile
     /// is the same kind of field at the length scale <paramref name="secondLengthM"/> (the lateral component). Modes with
     /// max(|i|, |j|) at most <paramref name="lo"/> are left to a coarser tile (0: only the mean is left out), those above
-    /// <paramref name="hi"/> (at most size/2) are left out. <paramref name="scratch"/>, if given, is the size x size work
-    /// array (a field's bands share one: 4 MiB less to allocate and collect per race).
+    /// <paramref name="hi"/> (at most size/2) are left out. <paramref name="scratch"/>, if given, is the work space.
+    /// The transform runs in single precision (<see cref="InverseFft"/>, where the precision is argued).
     /// </summary>
     public static (GustTile First, GustTile Second) Band(double firstLengthM, double secondLengthM, CounterRng rng,
-        int size, int pointsPerScale, int lo, int hi, Complex[]? scratch = null)
+        int size, int pointsPerScale, int lo, int hi, Scratch? scratch = null)
     {
-        if (size < 8 || (size & (size - 1)) != 0) throw new ArgumentException("tile size must be a power of two", nameof(size));
+        if (size < 16 || (size & (size - 1)) != 0) throw new ArgumentException("tile size must be a power of two of at least 16", nameof(size));
         if (lo < 0 || hi <= lo || hi > size / 2) throw new ArgumentException($"band ({lo}, {hi}] outside 0..{size / 2}");
-        var c = scratch is { Length: var len } && len == size * size ? scratch : new Complex[size * size];
-        Array.Clear(c);
+        var work = scratch is { } sc && sc.Size == size ? sc : new Scratch(size);
+        float[] re = work.Re, im = work.Im;
+        Array.Clear(re); Array.Clear(im);
         double dkl = 2 * Math.PI * pointsPerScale / size;     // grid wavenumber step times l
         double held = 0, grid = 0;
         var h = new double[hi + 1];                            // bilinear interpolation's amplitude response per index
@@ -67,65 +76,75 @@ public sealed class GustTile
                 spec[a * m + b] = spec[b * m + a] = sp;
                 amps[a * m + b] = amps[b * m + a] = am;
             }
+        // Mode (i, j) goes in at [j, i]: the first pass transforms along j, down the columns of the band's rows i. Each
+        // row's normal pairs are drawn together (CounterRng.NormalPairs: four at a time), from the same counters as ever.
+        var counters = new ulong[2 * hi + 1]; var js = new int[2 * hi + 1]; var amp1 = new double[2 * hi + 1];
+        var nr = new double[2 * hi + 1]; var ni = new double[2 * hi + 1];
         for (int fi = -hi; fi <= hi; fi++)
         {
-            int i = fi < 0 ? fi + size : fi;
+            int i = fi < 0 ? fi + size : fi, count = 0;
             for (int fj = -hi; fj <= hi; fj++)
             {
                 if (Math.Max(Math.Abs(fi), Math.Abs(fj)) <= lo) continue;
                 int j = fj < 0 ? fj + size : fj;
-                double s = spec[Math.Abs(fi) * m + Math.Abs(fj)];
                 double amp = amps[Math.Abs(fi) * m + Math.Abs(fj)];
-                held += s; grid += amp * amp;
-                var (re, im) = rng.NormalPair((ulong)(i * size + j));
-                c[i * size + j] = new Complex(amp * re, amp * im);
+                held += spec[Math.Abs(fi) * m + Math.Abs(fj)]; grid += amp * amp;
+                counters[count] = (ulong)(i * size + j); js[count] = j; amp1[count++] = amp;
+            }
+            rng.NormalPairs(counters.AsSpan(0, count), nr, ni);
+            for (int q = 0; q < count; q++)
+            {
+                re[js[q] * size + i] = (float)(amp1[q] * nr[q]); im[js[q] * size + i] = (float)(amp1[q] * ni[q]);
             }
         }
-        // 2-D inverse FFT as rows then columns (InverseFft: the arithmetic of MathNet's managed radix-2 transform with the
-        // twiddles worked out once); the rows beyond the band are zero and stay so.
+        // 2-D inverse FFT: along j for the band's columns i (the others are zero and stay so; the ranges are rounded out
+        // to whole vectors), then, transposed, along i for every column j: the result is x[i, j] at [i, j].
         var fft = new InverseFft(size);
-        for (int fi = -hi; fi <= hi; fi++)
-        {
-            int i = fi < 0 ? fi + size : fi;
-            fft.Transform(c.AsSpan(i * size, size));
-        }
-        // Columns eight at a time, interleaved (each row read brings eight neighbouring values, two cache lines, not one),
-        // transformed together lane by lane with the same arithmetic as one at a time (InverseFft.TransformInterleaved).
-        const int Block = 8; // size is a power of two of at least 8, so the blocks tile the columns exactly
-        var colRe = new double[Block * size]; var colIm = new double[Block * size];
-        for (int j0 = 0; j0 < size; j0 += Block)
-        {
-            for (int i = 0; i < size; i++)
-                for (int q = 0; q < Block; q++) { var v = c[i * size + j0 + q]; colRe[i * Block + q] = v.Real; colIm[i * Block + q] = v.Imaginary; }
-            fft.TransformInterleaved(colRe, colIm, Block);
-            for (int i = 0; i < size; i++)
-                for (int q = 0; q < Block; q++) c[i * size + j0 + q] = new Complex(colRe[i * Block + q], colIm[i * Block + q]);
-        }
+        int vc = System.Numerics.Vector<float>.Count, top = (hi + 1 + vc - 1) / vc * vc, bottom = (size - hi) / vc * vc;
+        if (top < bottom) { fft.Columns(re, im, 0, top); fft.Columns(re, im, bottom, size); }
+        else fft.Columns(re, im, 0, size);
+        InverseFft.Transpose(re, size); InverseFft.Transpose(im, size);
+        fft.Columns(re, im, 0, size);
         // The spectrum integrates to 3 pi / l^2 over the plane: the band holds held (dk l)^2 / (3 pi) of the unit variance.
         // Each tile is scaled so that, after the interpolation's loss, its variance is the band's: the grid values carry
         // grid / held times that (the correction above). Scaling by the realised standard deviation keeps every seed's
-        // tile at exactly its share.
+        // tile at exactly its share (and makes the transform's scale, left out, cancel).
         double variance = held * dkl * dkl / (3 * Math.PI);
         double gridVariance = variance * grid / held;
-        // Both tiles in the same passes over the transform (each with its own sums, in the same order as one tile at a
-        // time, so the same bits): the 4 MiB array is read twice instead of four times.
-        double sumR = 0, sum2R = 0, sumI = 0, sum2I = 0;
-        for (int i = 0; i < c.Length; i++)
-        {
-            double re = c[i].Real, im = c[i].Imaginary;
-            sumR += re; sum2R += re * re; sumI += im; sum2I += im * im;
-        }
-        double meanR = sumR / c.Length, sdR = Math.Sqrt(Math.Max(sum2R / c.Length - meanR * meanR, 1e-300));
-        double meanI = sumI / c.Length, sdI = Math.Sqrt(Math.Max(sum2I / c.Length - meanI * meanI, 1e-300));
+        var (meanR, sdR) = MeanSd(re); var (meanI, sdI) = MeanSd(im);
         double scaleR = Math.Sqrt(gridVariance) / sdR, scaleI = Math.Sqrt(gridVariance) / sdI;
-        var first = new float[c.Length]; var second = new float[c.Length];
-        for (int i = 0; i < c.Length; i++)
+        return (new GustTile(Standardised(re, meanR, scaleR), size, firstLengthM / IntegralToScale / pointsPerScale, variance),
+                new GustTile(Standardised(im, meanI, scaleI), size, secondLengthM / IntegralToScale / pointsPerScale, variance));
+    }
+
+    /// <summary>(v - mean) times scale, in single precision a vector at a time (the tile keeps single precision).</summary>
+    static float[] Standardised(float[] v, double mean, double scale)
+    {
+        var o = GC.AllocateUninitializedArray<float>(v.Length);
+        var sc = new Vector<float>((float)scale); var sh = new Vector<float>((float)(mean * scale));
+        int vc = Vector<float>.Count, i = 0;
+        ref float r = ref MemoryMarshal.GetArrayDataReference(v); ref float w = ref MemoryMarshal.GetArrayDataReference(o);
+        for (; i + vc <= v.Length; i += vc) (Vector.LoadUnsafe(ref r, (nuint)i) * sc - sh).StoreUnsafe(ref w, (nuint)i);
+        for (; i < v.Length; i++) o[i] = v[i] * (float)scale - (float)(mean * scale);
+        return o;
+    }
+
+    /// <summary>Mean and standard deviation of the values, summed in double precision.</summary>
+    static (double Mean, double Sd) MeanSd(float[] v)
+    {
+        // Widened to double four lanes at a time, in two accumulators each (the adds overlap instead of waiting in turn).
+        var s0 = Vector<double>.Zero; var s1 = Vector<double>.Zero; var q0 = Vector<double>.Zero; var q1 = Vector<double>.Zero;
+        int vc = Vector<float>.Count, i = 0;
+        ref float r = ref MemoryMarshal.GetArrayDataReference(v);
+        for (; i + vc <= v.Length; i += vc)
         {
-            first[i] = (float)((c[i].Real - meanR) * scaleR);
-            second[i] = (float)((c[i].Imaginary - meanI) * scaleI);
+            Vector.Widen(Vector.LoadUnsafe(ref r, (nuint)i), out var lo, out var hi);
+            s0 += lo; s1 += hi; q0 += lo * lo; q1 += hi * hi;
         }
-        return (new GustTile(first, size, firstLengthM / IntegralToScale / pointsPerScale, variance),
-                new GustTile(second, size, secondLengthM / IntegralToScale / pointsPerScale, variance));
+        double sum = Vector.Sum(s0 + s1), sum2 = Vector.Sum(q0 + q1);
+        for (; i < v.Length; i++) { double x = v[i]; sum += x; sum2 += x * x; }
+        double mean = sum / v.Length;
+        return (mean, Math.Sqrt(Math.Max(sum2 / v.Length - mean * mean, 1e-300)));
     }
 
     /// <summary>

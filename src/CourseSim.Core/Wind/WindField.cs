@@ -69,7 +69,7 @@ public sealed class WindField
         {
             // IEC 61400-1: lateral sigma 0.8 sigma_u, lateral length scale about a third of the longitudinal one. One inverse
             // FFT per band gives both components (GustTile.Band).
-            var scratch = new System.Numerics.Complex[TileSize * TileSize];
+            var scratch = new GustTile.Scratch(TileSize);
             (_gu, _gv) = GustTile.Band(s.GustLengthM, s.GustLengthM / 3.0, new CounterRng(seed, CounterRng.Streams.WindGustU),
                 TileSize, CoarsePoints, 0, BandTop, scratch);
             (_fu, _fv) = GustTile.Band(s.GustLengthM, s.GustLengthM / 3.0, new CounterRng(seed, CounterRng.Streams.WindGustV),
