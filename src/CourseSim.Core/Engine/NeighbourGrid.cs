@@ -1,3 +1,5 @@
+using System.Runtime.Intrinsics;
+
 namespace CourseSim.Engine;
 
 /// <summary>
@@ -54,9 +56,11 @@ public sealed class NeighbourGrid
 
     public double RangeM { get; }
 
-    public NeighbourGrid(int boards, double rangeM)
+    /// <summary>A grid for this many boards and lookout range; fleets of at most <paramref name="allPairsMax"/> boards
+    /// are measured all against all (<see cref="AllPairsMax"/>; a test sets it to compare both ways).</summary>
+    public NeighbourGrid(int boards, double rangeM, int allPairsMax = AllPairsMax)
     {
-        _n = boards; RangeM = rangeM; CellM = rangeM;
+        _n = boards; RangeM = rangeM; CellM = rangeM; _allPairsMax = allPairsMax;
         _cells = new CellHash(rangeM, boards);
         _nearM = rangeM / 2;
         _near = new CellHash(_nearM, boards);
@@ -84,13 +88,21 @@ public sealed class NeighbourGrid
     /// </summary>
     public void Build(StepSnapshot s, int[] byRank, double closeM)
     {
-        _cells.Build(s, byRank);
-        double tryNear = closeM <= _nearM ? NearTryShare * _nearM : -1;
+        int n = byRank.Length, fill = 0, examined = 0;
+        bool small = n <= _allPairsMax;
+        if (small)
+        {
+            // A small fleet: every board against every other, four at a time, from positions in canonical order.
+            if (_rx.Length < n + 4) { _rx = new double[n + 4]; _ry = new double[n + 4]; _rLive = new bool[n + 4]; }
+            _liveCount = 0;
+            for (int r = 0; r < n; r++) { int b = byRank[r]; _rx[r] = s.X[b]; _ry[r] = s.Y[b]; _rLive[r] = s.Live[b]; if (s.Live[b]) _liveCount++; }
+        }
+        else _cells.Build(s, byRank);
+        double tryNear = !small && closeM <= _nearM ? NearTryShare * _nearM : -1;
         bool anyNear = false;
         for (int r = 0; r < byRank.Length && !anyNear; r++) anyNear = s.Live[byRank[r]] && _kth[byRank[r]] <= tryNear;
         if (anyNear) _near.Build(s, byRank);
         Close.Clear();
-        int n = byRank.Length, fill = 0, examined = 0;
         for (int r = 0; r < n; r++) _rank[byRank[r]] = r;
         for (int r = 0; r < n; r++)
         {
@@ -98,8 +110,9 @@ public sealed class NeighbourGrid
             _adjStart[a] = fill; _adjLen[a] = 0; NearestM[a] = double.PositiveInfinity;
             if (!s.Live[a]) { _kth[a] = double.PositiveInfinity; continue; }
             int closeFrom = Close.Count;
-            var (ne, nearest) = anyNear && _kth[a] <= tryNear ? Look(_near, s, a, r, _nearM, closeM, ref examined) : (0, double.PositiveInfinity);
-            if (ne < MaxNeighbours)
+            var (ne, nearest) = small ? LookAll(byRank, a, r, n, closeM, ref examined)
+                : anyNear && _kth[a] <= tryNear ? Look(_near, s, a, r, _nearM, closeM, ref examined) : (0, double.PositiveInfinity);
+            if (!small && ne < MaxNeighbours)
             {
                 // Fewer than the cap within half the range (or no first look): look over the whole range, its close
                 // pairs from scratch.
@@ -171,6 +184,51 @@ public sealed class NeighbourGrid
                     if (e.Rank > r && d < closeM) Close.Add((a, e.Board));
                 }
             }
+        return (ne, nearest);
+    }
+
+    /// <summary>
+    /// Fleets of at most this many boards skip the cell hashes: each board is measured against every other, four per
+    /// <see cref="Vector256{T}"/> (SIMD across boards), in canonical order. Distances are the same expressions as a
+    /// look's (x_a - x_b squared plus y_a - y_b squared, no fused multiply-add, the same square root), and the keys are
+    /// unique, so the rows, close pairs and nearest distances are the same bits either way (the tests compare both with
+    /// brute force). Model-free: a choice of speed (the 40-board demo's countdown looked at about 28 boards a board
+    /// through nine hash buckets; here 39 in ten vector steps).
+    /// </summary>
+    public const int AllPairsMax = 64;
+    double[] _rx = [], _ry = [];
+    bool[] _rLive = [];
+    int _liveCount;
+    readonly int _allPairsMax;
+
+    /// <summary>Board a (rank r) against every live board of a small fleet: candidates within range into the candidate
+    /// buffer in canonical order, close pairs to later-ranked boards; how many, and the nearest distance.</summary>
+    (int Count, double Nearest) LookAll(int[] byRank, int a, int r, int n, double closeM, ref int examined)
+    {
+        double range2 = RangeM * RangeM, xa = _rx[r], ya = _ry[r], nearest = double.PositiveInfinity;
+        var vxa = Vector256.Create(xa); var vya = Vector256.Create(ya); var vr2 = Vector256.Create(range2);
+        ref double rx = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(_rx);
+        ref double ry = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(_ry);
+        int ne = 0;
+        for (int q = 0; q < n; q += 4)
+        {
+            // The arrays have 4 entries of room past n: lanes beyond the fleet are masked off below.
+            var dx = vxa - Vector256.LoadUnsafe(ref rx, (nuint)q); var dy = vya - Vector256.LoadUnsafe(ref ry, (nuint)q);
+            var d2 = dx * dx + dy * dy;
+            uint within = Vector256.LessThanOrEqual(d2, vr2).ExtractMostSignificantBits();
+            for (; within != 0; within &= within - 1)
+            {
+                int r2 = q + System.Numerics.BitOperations.TrailingZeroCount(within);
+                if (r2 >= n || r2 == r || !_rLive[r2]) continue;
+                double d = Math.Sqrt(d2.GetElement(r2 - q));
+                if (d < nearest) nearest = d;
+                Room(ref _eId, ref _eKey, ne);
+                int b = byRank[r2];
+                _eId[ne] = b; _eKey[ne++] = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32 | (uint)r2;
+                if (r2 > r && d < closeM) Close.Add((a, b));
+            }
+        }
+        examined += _liveCount - 1;
         return (ne, nearest);
     }
 

@@ -109,4 +109,39 @@ public class NeighbourGridTests
         }
         Assert.Equal(NeighbourGrid.MaxNeighbours, grid.Neighbours(40).Length); // 28 within range mid-line, 14 within half of it
     }
+    /// <summary>
+    /// Small fleets are measured all against all, four boards per vector: the rows, their order, the close pairs in order
+    /// and the nearest distances must be the very bits the cell hashes give (fleets of 1 to 64, packed, strung out and
+    /// with boards out of the race, in a canonical order that is not the index order; built twice, so the hashes' first
+    /// look over half the range is compared too).
+    /// </summary>
+    [Fact]
+    public void SmallFleetsGiveTheSameBitsAllAgainstAllAsThroughTheCells()
+    {
+        var rng = new System.Random(17);
+        int compared = 0, capped = 0;
+        foreach (int n in new[] { 1, 2, 3, 5, 8, 13, 20, 33, 40, 63, 64 })
+            foreach (double spread in new[] { 6.0, 40.0, 400.0 })
+            {
+                var s = new StepSnapshot(n);
+                for (int b = 0; b < n; b++) { s.X[b] = rng.NextDouble() * spread - 3000; s.Y[b] = rng.NextDouble() * spread * 0.3 + 1200; s.Live[b] = rng.NextDouble() > 0.1; }
+                var byRank = Enumerable.Range(0, n).OrderBy(_ => rng.Next()).ToArray();
+                var cells = new NeighbourGrid(n, 100, allPairsMax: 0);
+                var all = new NeighbourGrid(n, 100);
+                for (int pass = 0; pass < 2; pass++)
+                {
+                    cells.Build(s, byRank, 18); all.Build(s, byRank, 18);
+                    Assert.Equal(cells.Close, all.Close);
+                    for (int b = 0; b < n; b++)
+                    {
+                        Assert.Equal(cells.Neighbours(b).ToArray(), all.Neighbours(b).ToArray());
+                        Assert.Equal(BitConverter.DoubleToInt64Bits(cells.NearestM[b]), BitConverter.DoubleToInt64Bits(all.NearestM[b]));
+                        if (all.Neighbours(b).Length == NeighbourGrid.MaxNeighbours) capped++;
+                    }
+                    compared++;
+                }
+            }
+        Assert.Equal(66, compared);
+        Assert.True(capped > 0, "some rows were cut to the nearest 16");
+    }
 }
