@@ -98,8 +98,8 @@ public sealed class Lookabout
         for (int q = 0; q < n; q++)
         {
             int j = f.ByRank[_nearRank[q]]; double d = BitConverter.Int64BitsToDouble(_key[q]);
-            double seen = Math.Max(0, s.Tws[j] * (1 + sd * rng.Normal(f.Keys[j] >> 2)));
-            _seen.Add(new SeenBoard(j, f.Names[j], new Courses.Vec2(s.X[j], s.Y[j]), Unit.WrapDeg360(Unit.RadToDeg(s.Heading[j])), s.Speed[j], seen, d, s.NextStep[j]));
+            _seen.Add(new SeenBoard(j, f.Names[j], new Courses.Vec2(s.X[j], s.Y[j]), Unit.WrapDeg360(Unit.RadToDeg(s.Heading[j])), s.Speed[j], d,
+                s.NextStep[j], s.Tws[j], sd, rng, f.Keys[j] >> 2));
         }
         return _seen;
     }

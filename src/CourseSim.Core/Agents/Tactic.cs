@@ -10,8 +10,41 @@ public enum LegKind { Beat, Reach, Run }
 /// Another board as a rider sees it: where it is, where it points, how fast it goes, and how much wind it seems to
 /// have (read from the water around it and how it is sailing: the wind at its rig plus the rider's reading error).
 /// </summary>
-public readonly record struct SeenBoard(int Board, string Name, Vec2 Position, double HeadingDeg, double SpeedMs, double WindSpeedMs,
-    double DistanceM, int NextStep);
+public readonly struct SeenBoard
+{
+    readonly double _tws, _sd;
+    readonly Random.CounterRng _rng;
+    readonly ulong _key;
+
+    /// <summary>A board seen with the given wind (no reading error): for tactics' own tests.</summary>
+    public SeenBoard(int board, string name, Vec2 position, double headingDeg, double speedMs, double windSpeedMs, double distanceM, int nextStep)
+        : this(board, name, position, headingDeg, speedMs, distanceM, nextStep, windSpeedMs, 0, default, 0) { }
+
+    /// <summary>A board seen by a rider whose reading of its wind is off by a share drawn at <paramref name="key"/> from
+    /// <paramref name="rng"/> with standard deviation <paramref name="sd"/>.</summary>
+    internal SeenBoard(int board, string name, Vec2 position, double headingDeg, double speedMs, double distanceM, int nextStep,
+        double trueWindMs, double sd, Random.CounterRng rng, ulong key)
+    {
+        Board = board; Name = name; Position = position; HeadingDeg = headingDeg; SpeedMs = speedMs; DistanceM = distanceM; NextStep = nextStep;
+        _tws = trueWindMs; _sd = sd; _rng = rng; _key = key;
+    }
+
+    public int Board { get; }
+    public string Name { get; }
+    public Vec2 Position { get; }
+    public double HeadingDeg { get; }
+    public double SpeedMs { get; }
+    public double DistanceM { get; }
+    public int NextStep { get; }
+
+    /// <summary>
+    /// The wind it seems to have, m/s: the wind at its rig times one plus the rider's reading error. Worked out when read,
+    /// from the rider's own random stream at this step and the other board's key (a pure function: the same value however
+    /// often it is read, and nothing drawn for boards a tactic never asks about; a crowd of 200 boards in sight drew 200
+    /// normals a decision before).
+    /// </summary>
+    public double WindSpeedMs => _sd == 0 ? Math.Max(0, _tws) : Math.Max(0, _tws * (1 + _sd * _rng.Normal(_key)));
+}
 
 /// <summary>
 /// What a rider can know when deciding (docs/tactics.md): their own position, speed and heading; the wind as sensed at
