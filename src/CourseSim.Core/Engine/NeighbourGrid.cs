@@ -61,6 +61,8 @@ public sealed class NeighbourGrid
     public NeighbourGrid(int boards, double rangeM, int allPairsMax = AllPairsMax)
     {
         _n = boards; RangeM = rangeM; CellM = rangeM; _allPairsMax = allPairsMax;
+        // A small fleet's positions in canonical order, with a vector's room past the end: sized now, so no step allocates.
+        if (boards <= allPairsMax) { _rx = new double[boards + 4]; _ry = new double[boards + 4]; _rLive = new bool[boards + 4]; }
         _cells = new CellHash(rangeM, boards);
         _nearM = rangeM / 2;
         _near = new CellHash(_nearM, boards);
