@@ -50,6 +50,16 @@ public sealed class DecideSystem : RaceSystem
         {
             int b = blk.Id[i].Value;
             ref var it = ref blk.Intent[i];
+            // A decision still pending when the board rounds a mark was made for the leg just sailed, towards an aim point
+            // now behind it: the rider drops it and decides afresh for the new leg. Acted on, it started a tack or gybe
+            // back towards the mark, and the new leg's decision a turn back again (in the 12-board demo about one gybe
+            // in eight came within 8 s of the board's last one, runs of up to four, most of them just after a rounding).
+            ref var helm = ref blk.Helm[i];
+            if (helm.HasPending && helm.PendStep != blk.Status[i].NextStep)
+            {
+                helm.PendAt = double.PositiveInfinity;
+                it.NextDecisionS = Math.Min(it.NextDecisionS, c.Time);
+            }
             if (c.Time >= it.NextDecisionS) DecideOne(c, b, ref blk, i);
             ApplyIntent(c, b, ref it, ref blk.Helm[i], ref blk.Penalty[i], ref blk.Perception[i], in blk.Pose[i], in blk.Wind[i], in blk.Manoeuvre[i], in blk.Status[i], in blk.GiveWay[i]);
         }
@@ -59,8 +69,9 @@ public sealed class DecideSystem : RaceSystem
     /// A decision takes effect after the rider's reaction time. A newer one made while the last is still pending
     /// replaces it at the same moment (the rider is already acting and adjusts what they do).
     /// </summary>
-    static void Submit(RaceContext c, int b, ref Helm h, double heading, double power, double target, double fromDeg)
+    static void Submit(RaceContext c, int b, ref Helm h, double heading, double power, double target, double fromDeg, int step)
     {
+        h.PendStep = step;
         // A pending decision already due is acted on first; a new tack or gybe always takes a full reaction time.
         if (h.PendAt <= c.Time) { h.WantH = h.PendH; h.WantP = h.PendP; h.WantV = h.PendV; h.PendAt = double.PositiveInfinity; }
         bool newSide = Math.Sign(Sailing.SignedAngle(fromDeg, heading)) != Math.Sign(Sailing.SignedAngle(fromDeg, h.HasPending ? h.PendH : h.WantH));
@@ -153,7 +164,7 @@ public sealed class DecideSystem : RaceSystem
             }
         }
         if (Math.Sign(Sailing.SignedAngle(from, heading)) != tack) per.LastTurnS = c.Time;
-        Submit(c, b, ref helm, heading, power, rig.Speed(tws, Sailing.SignedAngle(from, heading)), from);
+        Submit(c, b, ref helm, heading, power, rig.Speed(tws, Sailing.SignedAngle(from, heading)), from, st.NextStep);
     }
 
     /// <summary>Fills the observation (the wind as the rider reads it) and asks the board's tactic.</summary>

@@ -85,6 +85,8 @@ public struct RaceStatus
 public struct Helm
 {
     public double WantH, WantP, WantV, PendH, PendP, PendV, PendAt, PlannedH, HoldTwaDeg;
+    /// <summary>The course step (RaceStatus.NextStep) the pending decision was made for.</summary>
+    public int PendStep;
     public readonly bool HasPending => !double.IsPositiveInfinity(PendAt);
     public readonly bool Pinned => !double.IsNaN(HoldTwaDeg);
 }

@@ -76,16 +76,18 @@ public class FleetRulesTests(Xunit.Abstractions.ITestOutputHelper output)
     /// session), keeping clear of others reset the power to full at every other look, the rider never fell behind, and
     /// sailed 120 s down the course beside the blocker: at seed 35 of the 40-board demo a first leg of 670 s against a
     /// fleet median of 411 s (1.63 x); after, 476 s against 400 s. Over seeds 1-96 the worst ratio went from 1.63 to 1.51
-    /// (other traps remain: docs/tactics.md), so this holds the one seed's case, not a fleet bound.
+    /// (other traps remain: docs/tactics.md), so this holds the one rider's case at that seed, not a fleet bound.
     /// </summary>
     [Fact, Trait("Category", Slow.Category)]
     public void ARiderWhoseTackIsBlockedDropsAsternInsteadOfSailingOnBesideTheBlocker()
     {
         var res = Fleet("race.seed=35").Result;
         var legs = res.Boards.Where(b => b.SplitsS.Count > 0).Select(b => b.SplitsS[0]).Order().ToArray();
-        double median = legs[legs.Length / 2], worst = legs[^1];
-        output.WriteLine($"first legs: median {median:F0} s, longest {worst:F0} s");
-        Assert.True(worst < 1.3 * median, $"longest first leg {worst:F0} s against a median of {median:F0} s");
+        double median = legs[legs.Length / 2];
+        // The rider who was trapped (other boards' first legs move with penalties and traffic, whatever this rule does).
+        double sten = res.Boards.Single(b => b.Name == "Sten Zeller").SplitsS[0];
+        output.WriteLine($"first legs: median {median:F0} s, longest {legs[^1]:F0} s; Sten Zeller {sten:F0} s");
+        Assert.True(sten < 1.3 * median, $"Sten Zeller's first leg {sten:F0} s against a median of {median:F0} s");
     }
 
     [Fact, Trait("Category", Slow.Category)]
