@@ -242,19 +242,15 @@ public sealed class Lookout : RaceSystem
             }
         }
         var (bestH, bestP) = Choose(c, k, in gw, baseH, va, side, turning, from, cur);
-        // Keeping clear of other boards on the present tack does not end the drop astern of the board that blocks the
-        // turn: the rider stays sheeted out on the way chosen (a tack; before, the two alternated from one look to the next, the
-        // rider never fell behind, and sailed on beside the blocker down the course: the 40-board demo at seed 35, 120 s).
+        // Keeping clear of others does not end a blocked tack's drop astern (before, the two alternated look by look and
+        // the rider sailed on beside the blocker: the 40-board demo at seed 35, 120 s down the course).
         if (turning && !gybing && DropAstern(c, s, k, in gw, gybing, firstOther)) bestP = 0;
         Start(c, k, ref gw, pending ? helm.PendAt : double.NaN, firstOther, firstRule);
         gw.Heading = bestH; gw.Power = bestP;
     }
 
-    /// <summary>
-    /// A gybe blocked by a board alongside for more than a moment: the rider sheets out and drops astern of it, to gybe
-    /// across its wake, rather than sail on past the layline beside it. So does one whose tack a board alongside to
-    /// windward on the same tack has blocked for a few seconds.
-    /// </summary>
+    /// <summary>A gybe blocked by a board alongside for more than a moment, or a tack blocked for a few seconds by one to
+    /// windward on the same tack: the rider sheets out and drops astern of it to turn across its wake.</summary>
     static bool DropAstern(RaceContext c, StepSnapshot s, int k, in GiveWay gw, bool gybing, int blocker)
     {
         double ox = s.X[k] - s.X[blocker], oy = s.Y[k] - s.Y[blocker];
