@@ -61,7 +61,7 @@ public sealed class DecideSystem : RaceSystem
                 it.NextDecisionS = Math.Min(it.NextDecisionS, c.Time);
             }
             if (c.Time >= it.NextDecisionS) DecideOne(c, b, ref blk, i);
-            ApplyIntent(c, b, ref it, ref blk.Helm[i], ref blk.Penalty[i], ref blk.Perception[i], in blk.Pose[i], in blk.Wind[i], in blk.Manoeuvre[i], in blk.Status[i], in blk.GiveWay[i]);
+            ApplyIntent(c, b, ref it, ref helm, ref blk.Penalty[i], ref blk.Perception[i], in blk.Pose[i], in blk.Wind[i], in blk.Manoeuvre[i], in blk.Status[i], in blk.GiveWay[i]);
         }
     }
 

@@ -61,8 +61,7 @@ public sealed class NeighbourGrid
     public NeighbourGrid(int boards, double rangeM, int allPairsMax = AllPairsMax)
     {
         _n = boards; RangeM = rangeM; CellM = rangeM; _allPairsMax = allPairsMax;
-        // A small fleet's positions in canonical order, with a vector's room past the end: sized now, so no step allocates.
-        if (boards <= allPairsMax) { _rx = new double[boards + 4]; _ry = new double[boards + 4]; _rLive = new bool[boards + 4]; }
+        if (boards <= allPairsMax) SizeAllPairs(boards); // now, so no step allocates
         _cells = new CellHash(rangeM, boards);
         _nearM = rangeM / 2;
         _near = new CellHash(_nearM, boards);
@@ -95,14 +94,15 @@ public sealed class NeighbourGrid
         if (small)
         {
             // A small fleet: every board against every other, four at a time, from positions in canonical order.
-            if (_rx.Length < n + 4) { _rx = new double[n + 4]; _ry = new double[n + 4]; _rLive = new bool[n + 4]; }
+            SizeAllPairs(n);
             _liveCount = 0;
             for (int r = 0; r < n; r++) { int b = byRank[r]; _rx[r] = s.X[b]; _ry[r] = s.Y[b]; _rLive[r] = s.Live[b]; if (s.Live[b]) _liveCount++; }
         }
         else _cells.Build(s, byRank);
         double tryNear = !small && closeM <= _nearM ? NearTryShare * _nearM : -1;
         bool anyNear = false;
-        for (int r = 0; r < byRank.Length && !anyNear; r++) anyNear = s.Live[byRank[r]] && _kth[byRank[r]] <= tryNear;
+        if (tryNear >= 0)
+            for (int r = 0; r < byRank.Length && !anyNear; r++) anyNear = s.Live[byRank[r]] && _kth[byRank[r]] <= tryNear;
         if (anyNear) _near.Build(s, byRank);
         Close.Clear();
         for (int r = 0; r < n; r++) _rank[byRank[r]] = r;
@@ -179,11 +179,7 @@ public sealed class NeighbourGrid
                     examined++;
                     double dx = xa - e.X, dy = ya - e.Y, d2 = dx * dx + dy * dy;
                     if (d2 > range2) continue;
-                    double d = Math.Sqrt(d2);
-                    if (d < nearest) nearest = d;
-                    Room(ref _eId, ref _eKey, ne);
-                    _eId[ne] = e.Board; _eKey[ne++] = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32 | (uint)e.Rank;
-                    if (e.Rank > r && d < closeM) Close.Add((a, e.Board));
+                    Candidate(a, r, e.Board, e.Rank, Math.Sqrt(d2), closeM, ref ne, ref nearest);
                 }
             }
         return (ne, nearest);
@@ -222,16 +218,32 @@ public sealed class NeighbourGrid
             {
                 int r2 = q + System.Numerics.BitOperations.TrailingZeroCount(within);
                 if (r2 >= n || r2 == r || !_rLive[r2]) continue;
-                double d = Math.Sqrt(d2.GetElement(r2 - q));
-                if (d < nearest) nearest = d;
-                Room(ref _eId, ref _eKey, ne);
-                int b = byRank[r2];
-                _eId[ne] = b; _eKey[ne++] = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32 | (uint)r2;
-                if (r2 > r && d < closeM) Close.Add((a, b));
+                Candidate(a, r, byRank[r2], r2, Math.Sqrt(d2.GetElement(r2 - q)), closeM, ref ne, ref nearest);
             }
         }
         examined += _liveCount - 1;
         return (ne, nearest);
+    }
+
+    /// <summary>A small fleet's positions in canonical order, with a vector's room past the end (grown only).</summary>
+    void SizeAllPairs(int n)
+    {
+        if (_rx.Length < n + 4) { _rx = new double[n + 4]; _ry = new double[n + 4]; _rLive = new bool[n + 4]; }
+    }
+
+    /// <summary>
+    /// Board b (rank <paramref name="rank"/>) at distance d from board a (rank r), within range: into the candidate buffer
+    /// with its key (the distance in single precision, whose bits order as the values do, above the rank), into the close
+    /// pairs when later-ranked and within <paramref name="closeM"/>, and the nearest distance kept. Both looks take
+    /// candidates here, so their rows are the same bits.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    void Candidate(int a, int r, int b, int rank, double d, double closeM, ref int ne, ref double nearest)
+    {
+        if (d < nearest) nearest = d;
+        Room(ref _eId, ref _eKey, ne);
+        _eId[ne] = b; _eKey[ne++] = (ulong)BitConverter.SingleToUInt32Bits((float)d) << 32 | (uint)rank;
+        if (rank > r && d < closeM) Close.Add((a, b));
     }
 
     /// <summary>Grows a candidate buffer (both columns) so index i fits: once, for a denser fleet than any before.</summary>

@@ -25,10 +25,17 @@ public readonly record struct CounterRng(ulong Seed, ulong Stream)
         return z ^ (z >> 31);
     }
 
-    public ulong Bits(ulong counter) => Mix(Mix(Seed ^ 0xD1B54A32D192ED03UL) ^ Mix(Stream + 0x8CB92BA72F3D8DD7UL) ^ counter * 0x9E3779B97F4A7C15UL);
+    public ulong Bits(ulong counter) => BitsOf(StreamKey, counter);
+
+    /// <summary>What <see cref="Bits"/> mixes each counter with: the seed and stream, combined.</summary>
+    ulong StreamKey => Mix(Seed ^ 0xD1B54A32D192ED03UL) ^ Mix(Stream + 0x8CB92BA72F3D8DD7UL);
+
+    static ulong BitsOf(ulong streamKey, ulong counter) => Mix(streamKey ^ counter * 0x9E3779B97F4A7C15UL);
 
     /// <summary>Uniform on [0, 1) with 53 random bits.</summary>
-    public double Uniform(ulong counter) => (Bits(counter) >> 11) * (1.0 / 9007199254740992.0);
+    public double Uniform(ulong counter) => ToUniform(Bits(counter));
+
+    static double ToUniform(ulong bits) => (bits >> 11) * (1.0 / 9007199254740992.0);
 
     /// <summary>Two independent standard normals from one Box-Muller pair (uniforms at counters 2c and 2c+1): half the cost of two <see cref="Normal"/> calls.</summary>
     public (double A, double B) NormalPair(ulong counter)
@@ -49,7 +56,7 @@ public readonly record struct CounterRng(ulong Seed, ulong Stream)
     public void NormalPairs(ReadOnlySpan<ulong> counters, Span<double> a, Span<double> b)
     {
         if (a.Length < counters.Length || b.Length < counters.Length) throw new ArgumentException("output spans shorter than the counters");
-        ulong key = Mix(Seed ^ 0xD1B54A32D192ED03UL) ^ Mix(Stream + 0x8CB92BA72F3D8DD7UL); // Bits(c) is Mix(key ^ c * golden)
+        ulong key = StreamKey; // worked out once for the batch
         Span<double> u1 = stackalloc double[4], u2 = stackalloc double[4];
         for (int k0 = 0; k0 < counters.Length; k0 += 4)
         {
@@ -57,8 +64,8 @@ public readonly record struct CounterRng(ulong Seed, ulong Stream)
             for (int q = 0; q < 4; q++)
             {
                 ulong c = counters[k0 + Math.Min(q, n - 1)]; // a short last block repeats its last counter
-                u1[q] = 1.0 - (Mix(key ^ 2 * c * 0x9E3779B97F4A7C15UL) >> 11) * (1.0 / 9007199254740992.0);
-                u2[q] = (Mix(key ^ (2 * c + 1) * 0x9E3779B97F4A7C15UL) >> 11) * (1.0 / 9007199254740992.0);
+                u1[q] = 1.0 - ToUniform(BitsOf(key, 2 * c));
+                u2[q] = ToUniform(BitsOf(key, 2 * c + 1));
             }
             var v1 = System.Runtime.Intrinsics.Vector256.Create<double>(u1);
             var v2 = System.Runtime.Intrinsics.Vector256.Create<double>(u2);

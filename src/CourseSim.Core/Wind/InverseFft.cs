@@ -38,8 +38,6 @@ public sealed class InverseFft
             }
     }
 
-    public int Length => _n;
-
     /// <summary>
     /// Transforms columns <paramref name="col0"/> (inclusive) to <paramref name="col1"/> (exclusive) of the n x n arrays
     /// in place, each down its n rows; the other columns are not touched. The range's width must be a multiple of
